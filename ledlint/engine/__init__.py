@@ -1,0 +1,1 @@
+"""Numeric LED-circuit engine: diode model, operating points, corners, Monte Carlo, thermal."""

@@ -1,0 +1,1 @@
+"""Output formats: one module per format, each consuming findings and rule metadata."""

@@ -1,0 +1,1 @@
+"""Built-in design rules, one module per rule (installed as ``ledlint.rules``)."""
