@@ -1,0 +1,131 @@
+"""S-expression layer: netlist text to a tree of lists and exact-text atoms, with offsets.
+
+KiCad's own lexer rules (kicad-netlist-format.md §1.1, §2.1, §2.2): an atom is either a
+quoted string with backslash escapes or a bare run of anything but ASCII whitespace and
+parentheses, taken literally (v5 writes Windows paths and `/LED[0]` bare). Every atom stays
+text: nothing becomes a number, a boolean or an empty list, and `;` or `#` start nothing.
+The scanner is iterative with an explicit stack, so nesting depth cannot exhaust the
+interpreter's recursion limit; depth is capped at MAX_DEPTH with a clean error instead.
+"""
+
+from __future__ import annotations
+
+import re
+from bisect import bisect_right
+
+from ledlint.errors import InputError
+
+# KiCad nests about eight levels deep; anything far beyond that is not a netlist.
+MAX_DEPTH = 100
+
+# One token per match, leading ASCII whitespace skipped. Groups: 1 "(", 2 ")", 3 the body
+# of a quoted string (never spans a line: KiCad writes \n inside strings as an escape),
+# 4 a bare atom (a '"' after its first character belongs to it), 5 a quote that opens a
+# string never closed on its line.
+_TOKEN = re.compile(
+    r'[ \t\r\n\f\v]*(?:(\()|(\))|"([^"\\\r\n]*(?:\\.[^"\\\r\n]*)*)"|([^ \t\r\n\f\v()"][^ \t\r\n\f\v()]*)|("))'
+)
+_ESCAPE = re.compile(r"\\(?:x([0-9A-Fa-f]{1,2})|([0-7]{1,3})|(.))", re.S)
+_SIMPLE_ESCAPES = {
+    '"': '"', "\\": "\\", "a": "\a", "b": "\b", "f": "\f",
+    "n": "\n", "r": "\r", "t": "\t", "v": "\v",
+}
+
+
+class SList(list):
+    """A parsed list: its items (atoms as str, sub-lists as SList) and where it opened."""
+
+    __slots__ = ("offset",)
+
+    @property
+    def head(self) -> str:
+        """The list's keyword, or '' when the list is empty or starts with a list."""
+        return self[0] if self and type(self[0]) is str else ""
+
+
+def _unescape_one(m: re.Match[str]) -> str:
+    hexa, octal, other = m.groups()
+    if hexa is not None:
+        return chr(int(hexa, 16))
+    if octal is not None:
+        return chr(int(octal, 8))
+    # DSNLEXER keeps the backslash of an escape it does not know.
+    return _SIMPLE_ESCAPES.get(other, "\\" + other)
+
+
+def unescape(body: str) -> str:
+    """Resolve KiCad's string escapes (\\" \\\\ \\n \\t \\x41 \\101, unknown kept)."""
+    return _ESCAPE.sub(_unescape_one, body) if "\\" in body else body
+
+
+class Locator:
+    """Turns character offsets into 1-based line and column numbers."""
+
+    def __init__(self, text: str) -> None:
+        self._text = text
+        self._starts: list[int] | None = None
+
+    def line_col(self, offset: int) -> tuple[int, int]:
+        if self._starts is None:
+            self._starts = [0] + [m.end() for m in re.finditer("\n", self._text)]
+        line = bisect_right(self._starts, offset)
+        return line, offset - self._starts[line - 1] + 1
+
+
+def parse(text: str, path: str = "") -> SList:
+    """Parse text holding exactly one top-level list; raise InputError at the faulty spot."""
+    locator = Locator(text)
+
+    def fail(message: str, offset: int) -> InputError:
+        line, col = locator.line_col(offset)
+        return InputError(message, path, line, col)
+
+    top = SList()
+    current = top
+    stack: list[SList] = []
+    for m in _TOKEN.finditer(text):
+        kind = m.lastindex
+        if not stack and (top or kind != 1):
+            offset = m.start(kind)
+            if kind == 2:
+                raise fail("unexpected ')': more lists closed than opened", offset)
+            if top:
+                raise fail("unexpected text after the netlist's closing ')'", offset)
+            raise fail(_describe_non_sexpr(text[offset:]), offset)
+        if kind == 1:
+            if len(stack) >= MAX_DEPTH:
+                raise fail(f"lists nested deeper than {MAX_DEPTH} levels; not a KiCad netlist", m.start(1))
+            new = SList()
+            new.offset = m.start(1)
+            current.append(new)
+            stack.append(current)
+            current = new
+        elif kind == 2:
+            current = stack.pop()
+        elif kind == 3:
+            current.append(unescape(m.group(3)))
+        elif kind == 4:
+            current.append(m.group(4))
+        else:
+            raise fail("unterminated string: a '\"' is never closed on its line", m.start(5))
+    if stack:
+        line, col = locator.line_col(current.offset)
+        raise fail(
+            f"unexpected end of file: {len(stack)} list(s) still open, the innermost "
+            f"'({current.head}' opened at line {line} column {col} (truncated file?)",
+            len(text.rstrip()),
+        )
+    if not top:
+        raise fail("empty file: expected a KiCad netlist, '(export …)'", 0)
+    return top[0]
+
+
+def _describe_non_sexpr(text: str) -> str:
+    if text.startswith(("{", "[")):
+        return "this looks like JSON, not a KiCad netlist (expected '(export …)')"
+    if text.startswith("<"):
+        return "this looks like XML; export the KiCad netlist in its s-expression format (.net)"
+    if text.startswith("#") and "netlist" in text[:200].lower():
+        return "this is a pre-2013 legacy KiCad netlist; re-export it from a current KiCad as .net"
+    token = re.match(r"[^ \t\r\n\f\v()]*", text).group(0) or text[:1]
+    return f"expected '(' to open a KiCad netlist, found {token[:20]!r}"
