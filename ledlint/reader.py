@@ -1,0 +1,317 @@
+"""Reader: a KiCad s-expression netlist file (KiCad 4/5 to 10) to the Netlist model."""
+
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass, field
+from pathlib import Path
+from types import MappingProxyType
+
+from ledlint.errors import InputError
+from ledlint.model import Component, Net, Netlist, Note, Pin, PinType, Sheet
+from ledlint.sexpr import Locator, SList, parse
+
+# Properties KiCad writes for its own purposes, as opposed to the user's fields
+# (kicad-netlist-format.md §1.4 and §5).
+_KICAD_PROPERTIES = frozenset(
+    {"sheetname", "sheetfile", "sheet name", "sheet file", "dnp", "exclude_from_bom",
+     "exclude_from_board", "exclude_from_pos_files", "exclude_from_sim"}
+)
+# A user field or value that marks a part "do not populate" in KiCad 5 designs, which had
+# no native flag (common practice).
+_DNP_FIELDS = frozenset({"dnp", "dnf", "do not populate", "do not fit"})
+_DNP_TRUE = frozenset({"1", "yes", "y", "true", "x", "dnp", "dnf"})
+_DNP_VALUES = frozenset({"dnp", "dnf", "dni", "nf", "n/f", "nofit", "no fit", "do not populate"})
+_OTHER_ROOTS = {
+    "kicad_pcb": "a KiCad board file",
+    "kicad_sch": "a KiCad schematic file",
+    "kicad_symbol_lib": "a KiCad symbol library",
+    "footprint": "a KiCad footprint",
+    "module": "a KiCad footprint",
+    "fp_lib_table": "a KiCad footprint library table",
+    "sym_lib_table": "a KiCad symbol library table",
+}
+_DIGITS = re.compile(r"(\d+)")
+
+
+def read_netlist(path: str | Path) -> Netlist:
+    """Read a netlist file; every problem with the input is an InputError."""
+    name = str(path)
+    try:
+        data = Path(path).read_bytes()
+    except FileNotFoundError:
+        raise InputError("no such file", name) from None
+    except IsADirectoryError:
+        raise InputError("is a folder, not a netlist file", name) from None
+    except OSError as exc:
+        raise InputError(f"cannot read: {exc.strerror or exc}", name) from None
+    text, notes = decode(data, name)
+    return parse_netlist(text, name, notes)
+
+
+def decode(data: bytes, path: str = "") -> tuple[str, list[Note]]:
+    """Bytes to text. KiCad writes UTF-8 (kicad-netlist-format.md §6.8).
+
+    A file that is not text (a NUL byte, or invalid UTF-8 before the first '(') is an error.
+    Invalid bytes later in an otherwise good file are replaced by U+FFFD and noted, so one
+    bad byte in a description does not lose the file.
+    """
+    nul = data.find(b"\0")
+    if nul >= 0:
+        line, col = _byte_position(data, nul)
+        raise InputError("binary file (NUL byte), not a KiCad netlist", path, line, col)
+    if data.startswith(b"\xef\xbb\xbf"):
+        data = data[3:]
+    try:
+        return data.decode("utf-8"), []
+    except UnicodeDecodeError as exc:
+        line, col = _byte_position(data, exc.start)
+        if not data.lstrip().startswith(b"("):
+            raise InputError("not a text file (invalid UTF-8), not a KiCad netlist", path, line, col) from None
+        note = Note(line, col, f"invalid UTF-8 byte 0x{data[exc.start]:02X}; undecodable bytes read as U+FFFD")
+        return data.decode("utf-8", errors="replace"), [note]
+
+
+def _byte_position(data: bytes, index: int) -> tuple[int, int]:
+    line = data.count(b"\n", 0, index) + 1
+    start = data.rfind(b"\n", 0, index) + 1
+    return line, len(data[start:index].decode("utf-8", errors="replace")) + 1
+
+
+def parse_netlist(text: str, path: str = "<string>", notes: list[Note] | None = None) -> Netlist:
+    """Parse netlist text into the model."""
+    root = parse(text, path)
+    return _Builder(root, path, Locator(text), list(notes or ())).build()
+
+
+def _atom(item: SList | None) -> str:
+    """The first atom after a list's head: (name X) gives X; (name) or absence gives ''."""
+    if item is not None:
+        for x in item[1:]:
+            if type(x) is str:
+                return x
+    return ""
+
+
+def _children(item: SList) -> dict[str, SList]:
+    """A list's sub-lists by head; the first wins, as KiCad writes each once."""
+    out: dict[str, SList] = {}
+    for x in item[1:]:
+        if type(x) is SList and x and type(x[0]) is str:
+            out.setdefault(x[0], x)
+    return out
+
+
+def _sublists(item: SList | None, head: str) -> list[SList]:
+    if item is None:
+        return []
+    return [x for x in item[1:] if type(x) is SList and x and x[0] == head]
+
+
+def _empty_marker(text: str) -> str:
+    # '~' is KiCad's "empty" placeholder for values, datasheets and pin names (§6.11).
+    return "" if text == "~" else text
+
+
+def _natural(number: str) -> tuple:
+    return tuple(int(p) if p.isdigit() else p for p in _DIGITS.split(number))
+
+
+@dataclass
+class _NodeInfo:
+    net: str
+    function: str
+    pintype: str
+    line: int
+
+
+@dataclass
+class _Builder:
+    root: SList
+    path: str
+    locator: Locator
+    notes: list[Note]
+    kicad10: bool = False
+    libpins: dict[tuple[str, str], dict[str, tuple[str, str]]] = field(default_factory=dict)
+
+    def note(self, item: SList, message: str) -> None:
+        line, col = self.locator.line_col(item.offset)
+        self.notes.append(Note(line, col, message))
+
+    def line(self, item: SList) -> int:
+        return self.locator.line_col(item.offset)[0]
+
+    def fail(self, item: SList, message: str) -> InputError:
+        line, col = self.locator.line_col(item.offset)
+        return InputError(message, self.path, line, col)
+
+    def build(self) -> Netlist:
+        root = self.root
+        if root.head != "export":
+            what = _OTHER_ROOTS.get(root.head)
+            if what:
+                raise self.fail(root, f"this is {what} ({root.head}), not a netlist; export the netlist "
+                                      "from the schematic editor")
+            raise self.fail(root, f"not a KiCad netlist: the file starts with '({root.head}', expected '(export'")
+        sections = _children(root)
+        version = _atom(sections.get("version"))
+        if version not in ("D", "E"):
+            self.note(sections.get("version", root), f"unknown netlist version {version!r}; read as version E")
+        design = sections.get("design")
+        dsec = _children(design) if design is not None else {}
+        tool = _atom(dsec.get("tool"))
+        self.kicad10 = "groups" in sections or "variants" in sections or _tool_major(tool) >= 10
+        self._index_libparts(sections.get("libparts"))
+        nodes, net_items = self._read_nets(sections.get("nets"))
+        components = self._read_components(sections.get("components"), nodes)
+        nets = self._assemble_nets(net_items, components)
+        sheets = tuple(_sheet(_children(s)) for s in _sublists(design, "sheet"))
+        return Netlist(
+            path=self.path, version=version or "E", tool=tool, source=_atom(dsec.get("source")),
+            date=_atom(dsec.get("date")), sheets=sheets, components=components, nets=nets,
+            notes=tuple(self.notes),
+        )
+
+    def _index_libparts(self, libparts: SList | None) -> None:
+        for lp in _sublists(libparts, "libpart"):
+            sec = _children(lp)
+            pins = {}
+            for p in _sublists(sec.get("pins"), "pin"):
+                ps = _children(p)
+                pins[_atom(ps.get("num"))] = (_empty_marker(_atom(ps.get("name"))), _atom(ps.get("type")))
+            lib = _atom(sec.get("lib"))
+            names = [_atom(sec.get("part"))] + [_atom(a) for a in _sublists(sec.get("aliases"), "alias")]
+            for name in names:
+                self.libpins.setdefault((lib, name), pins)
+                self.libpins.setdefault(("", name), pins)
+
+    def _read_nets(self, nets: SList | None) -> tuple[dict[tuple[str, str], _NodeInfo], list[tuple[SList, str]]]:
+        nodes: dict[tuple[str, str], _NodeInfo] = {}
+        items = []
+        seen_names: set[str] = set()
+        for net in _sublists(nets, "net"):
+            sec = _children(net)
+            name = _atom(sec.get("name"))
+            if name in seen_names:
+                self.note(net, f"net name {name!r} appears twice; the second net's pins are merged into the first")
+            seen_names.add(name)
+            items.append((net, name))
+            for node in _sublists(net, "node"):
+                ns = _children(node)
+                ref, pin = _atom(ns.get("ref")), _atom(ns.get("pin"))
+                if not ref or ref.startswith("#"):
+                    continue  # power symbols and flags are never parts (§4)
+                key = (ref, pin)
+                old = nodes.get(key)
+                if old is None:
+                    nodes[key] = _NodeInfo(name, _atom(ns.get("pinfunction")), _atom(ns.get("pintype")),
+                                           self.line(node))
+                elif old.net != name:
+                    self.note(node, f"pin {ref}.{pin} is on two nets, {old.net!r} and {name!r}; "
+                                    f"kept on {old.net!r}")
+        return nodes, items
+
+    def _pin_name(self, function: str, number: str) -> str:
+        # KiCad 10 writes pinfunction as name_number (§3.2); strip exactly that suffix.
+        if self.kicad10:
+            if function == number:
+                return ""
+            if function.endswith("_" + number):
+                return function[: -len(number) - 1]
+        return function
+
+    def _read_components(self, comps: SList | None, nodes: dict[tuple[str, str], _NodeInfo]) -> tuple[Component, ...]:
+        by_ref_nodes: dict[str, dict[str, _NodeInfo]] = {}
+        for (ref, pin), info in nodes.items():
+            by_ref_nodes.setdefault(ref, {})[pin] = info
+        out: dict[str, Component] = {}
+        for comp in _sublists(comps, "comp"):
+            sec = _children(comp)
+            ref = _atom(sec.get("ref"))
+            if not ref:
+                raise self.fail(comp, "component without a reference, (ref …)")
+            if ref.startswith("#"):
+                continue
+            if ref in out:
+                self.note(comp, f"reference {ref} appears twice (first at line {out[ref].line}); "
+                                "the second is ignored")
+                continue
+            if "units" in sec:
+                self.kicad10 = True
+            out[ref] = self._component(comp, sec, ref, by_ref_nodes.pop(ref, {}))
+        for ref, pins in by_ref_nodes.items():
+            first = min(pins.values(), key=lambda i: i.line)
+            self.notes.append(Note(first.line, 1, f"net node names {ref!r}, which is not among the components"))
+        return tuple(out.values())
+
+    def _component(self, comp: SList, sec: dict[str, SList], ref: str, pin_nodes: dict[str, _NodeInfo]) -> Component:
+        value = _empty_marker(_atom(sec.get("value")))
+        footprint = _atom(sec.get("footprint"))
+        datasheet = _empty_marker(_atom(sec.get("datasheet")))
+        lib_sec = _children(sec["libsource"]) if "libsource" in sec else {}
+        lib, part = _atom(lib_sec.get("lib")), _atom(lib_sec.get("part"))
+        own_description = "description" in sec
+        description = _atom(sec.get("description")) if own_description else _atom(lib_sec.get("description"))
+        fields: dict[str, str] = {}
+        for f in _sublists(sec.get("fields"), "field"):
+            name = _atom(_children(f).get("name"))
+            text = _atom(f)
+            # KiCad 8+ repeats its own Footprint/Datasheet/Description fields here (§1.4).
+            if (name == "Footprint" and text == footprint) or (name == "Datasheet" and _empty_marker(text) == datasheet) \
+                    or (name == "Description" and own_description):
+                continue
+            if name:
+                fields.setdefault(name, text)
+        properties: dict[str, str] = {}
+        for p in _sublists(comp, "property"):
+            ps = _children(p)
+            name, text = _atom(ps.get("name")), _atom(ps.get("value"))
+            if name.lower() in _KICAD_PROPERTIES or name.startswith("ki_"):
+                properties[name] = text
+            elif name:
+                fields.setdefault(name, text)
+        dnp = "dnp" in properties or value.lower() in _DNP_VALUES or any(
+            k.lower() in _DNP_FIELDS and v.strip().lower() in _DNP_TRUE for k, v in fields.items())
+        sheet = _atom(_children(sec["sheetpath"]).get("names")) if "sheetpath" in sec else "/"
+        libpins = self.libpins.get((lib, part)) or self.libpins.get(("", part)) or {}
+        pins = []
+        for number in sorted(set(libpins) | set(pin_nodes), key=_natural):
+            lib_name, lib_type = libpins.get(number, ("", ""))
+            node = pin_nodes.get(number)
+            if node is not None:
+                base, _, flag = node.pintype.partition("+")
+                name = self._pin_name(node.function, number) if node.function else lib_name
+                type_text = base or lib_type
+                pins.append(Pin(ref, number, name, PinType.from_text(type_text), node.net, flag == "no_connect"))
+            else:
+                pins.append(Pin(ref, number, lib_name, PinType.from_text(lib_type), None))
+        return Component(
+            ref=ref, value=value, footprint=footprint, datasheet=datasheet, description=description,
+            lib=lib, part=part, fields=MappingProxyType(fields), properties=MappingProxyType(properties),
+            dnp=dnp, exclude_from_bom="exclude_from_bom" in properties, sheet=sheet or "/",
+            line=self.line(comp), pins=tuple(pins),
+        )
+
+    def _assemble_nets(self, items: list[tuple[SList, str]], components: tuple[Component, ...]) -> tuple[Net, ...]:
+        pins_by_net: dict[str, list[Pin]] = {}
+        for comp in components:
+            for pin in comp.pins:
+                if pin.net is not None:
+                    pins_by_net.setdefault(pin.net, []).append(pin)
+        nets: dict[str, Net] = {}
+        for item, name in items:
+            if name in nets:
+                continue
+            sec = _children(item)
+            nets[name] = Net(code=_atom(sec.get("code")), name=name, netclass=_atom(sec.get("class")),
+                             pins=tuple(pins_by_net.get(name, ())), line=self.line(item))
+        return tuple(nets.values())
+
+
+def _sheet(sec: dict[str, SList]) -> Sheet:
+    return Sheet(_atom(sec.get("number")), _atom(sec.get("name")), _atom(sec.get("tstamps")))
+
+
+def _tool_major(tool: str) -> int:
+    m = re.search(r"(\d+)\.\d+", tool)
+    return int(m.group(1)) if m else 0
