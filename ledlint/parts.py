@@ -1,0 +1,140 @@
+"""Part classification: what each component is electrically, and the dies of an LED package.
+
+Goes by pin names first (they are what KiCad's stock symbols and most user libraries share,
+kicad-netlist-format.md §3.5), then by the trade's words in part, value and description.
+Maker part numbers are never matched.
+"""
+
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass
+from enum import Enum
+
+from ledlint.model import Component, Pin
+
+
+class Kind(Enum):
+    """What a component is, as far as LED circuits care."""
+
+    LED = "led"  # one or more light-emitting dies with exposed anode/cathode pins
+    LED_ADDRESSABLE = "led-addressable"  # an LED with a built-in controller (data in/out)
+    RESISTOR = "resistor"
+    CAPACITOR = "capacitor"
+    INDUCTOR = "inductor"
+    DIODE = "diode"
+    ZENER = "zener"
+    BRIDGE = "bridge-rectifier"
+    NPN = "npn"
+    PNP = "pnp"
+    NMOS = "nmos"
+    PMOS = "pmos"
+    IC = "ic"
+    CONNECTOR = "connector"
+    OTHER = "other"
+
+
+@dataclass(frozen=True, slots=True)
+class Die:
+    """One light-emitting junction: its anode and cathode pins (numbers) and a name."""
+
+    name: str  # "" for a single-die LED, else e.g. "R", "G", "1"
+    anode: str
+    cathode: str
+
+
+_WORD_LED = re.compile(r"(?<![a-z])led(?![a-z])|light[ -]emitting", re.I)
+_ADDRESSABLE_WORDS = re.compile(r"addressable|pixel|rgb|led|integrated controller", re.I)
+_COLOUR_TERMINAL = re.compile(r"^(R|G|B|W|Y|O|IR|UV|WW|CW)(A|K)$")
+_NUMBERED_TERMINAL = re.compile(r"^(A|K)(\d)$")
+_MARKUP = re.compile(r"[~{}!]")
+_DATA_IN = {"DIN", "DI", "SDI", "IN", "DATAIN", "DATA_IN"}
+_DATA_OUT = {"DOUT", "DO", "SDO", "OUT", "DATAOUT", "DATA_OUT"}
+_SUPPLY = {"VDD", "VCC", "V+", "VLED", "5V"}
+_GROUND = {"VSS", "GND", "V-"}
+_CLOCK = {"CI", "CO", "CKI", "CKO", "CIN", "COUT", "CLKI", "CLKO", "BIN", "BOUT", "NC", ""}
+_EXPOSED_PAD = {"PAD", "EP", "TAB"}
+
+
+def _pin_name(pin: Pin) -> str:
+    return _MARKUP.sub("", pin.name).upper()
+
+
+def _text(component: Component) -> str:
+    extra = " ".join(v for k, v in component.fields.items() if k.casefold() in ("description", "keywords"))
+    keywords = component.properties.get("ki_keywords", "")
+    return " ".join((component.part, component.value, component.description, extra, keywords))
+
+
+def led_dies(component: Component) -> tuple[Die, ...]:
+    """The dies of an LED package from its pin names; () when the pins do not read as an LED."""
+    names = {_pin_name(p): p.number for p in component.pins}
+    named = {n: num for n, num in names.items() if n and n not in _EXPOSED_PAD}
+    if set(named) == {"A", "K"}:
+        return (Die("", named["A"], named["K"]),)
+    if set(named) <= {"1", "2"} and len(component.pins) == 2 and _WORD_LED.search(_text(component)):
+        # Unnamed two-pin LED symbols: KiCad's stock LED numbering, 1 = K, 2 = A (§3.5).
+        return (Die("", "2", "1"),)
+    if set(named) == {"KA", "AK"}:  # two dies back to back between two pins
+        return (Die("1", named["AK"], named["KA"]), Die("2", named["KA"], named["AK"]))
+    common_a, common_k = named.get("A"), named.get("K")
+    anodes: dict[str, str] = {}
+    cathodes: dict[str, str] = {}
+    for name, number in named.items():
+        if name in ("A", "K"):
+            continue
+        m = _COLOUR_TERMINAL.match(name) or _NUMBERED_TERMINAL.match(name)
+        if not m:
+            return ()
+        colour, end = (m.group(1), m.group(2)) if _COLOUR_TERMINAL.match(name) else (m.group(2), m.group(1))
+        (anodes if end == "A" else cathodes)[colour] = number
+    dies = []
+    for colour in sorted(set(anodes) | set(cathodes)):
+        anode = anodes.get(colour, common_a)
+        cathode = cathodes.get(colour, common_k)
+        if anode is None or cathode is None:
+            return ()
+        dies.append(Die(colour, anode, cathode))
+    return tuple(dies)
+
+
+def is_addressable(component: Component) -> bool:
+    """Data in, data out and a supply pair on a small package: an LED with its own controller."""
+    names = {_pin_name(p) for p in component.pins}
+    if not (names & _DATA_IN and names & _DATA_OUT and names & _SUPPLY and names & _GROUND):
+        return False
+    if not names <= _DATA_IN | _DATA_OUT | _SUPPLY | _GROUND | _CLOCK | _EXPOSED_PAD:
+        return False
+    return len(component.pins) == 4 or bool(_ADDRESSABLE_WORDS.search(_text(component)))
+
+
+def classify(component: Component) -> Kind:
+    """The component's kind (see Kind)."""
+    text = _text(component)
+    lower = text.lower()
+    prefix = re.match(r"[A-Za-z]*", component.ref).group(0).upper()
+    if is_addressable(component):
+        return Kind.LED_ADDRESSABLE
+    if _WORD_LED.search(text) and led_dies(component):
+        return Kind.LED
+    names = {_pin_name(p) for p in component.pins}
+    if {"B", "C", "E"} <= names:
+        return Kind.PNP if "pnp" in lower else Kind.NPN
+    if {"G", "D", "S"} <= names:
+        return Kind.PMOS if re.search(r"pmos|p-mos|p-ch|p ch|pfet|p-fet", lower) else Kind.NMOS
+    if "bridge" in lower or {"+", "-"} <= names and len(component.pins) == 4:
+        return Kind.BRIDGE
+    if names >= {"A", "K"} and len(component.pins) <= 3:
+        return Kind.ZENER if "zener" in lower else Kind.DIODE
+    two_pin = len(component.pins) == 2
+    if prefix == "R" and two_pin or re.fullmatch(r"r(_small|_us)?", component.part.lower()):
+        return Kind.RESISTOR
+    if prefix == "C" and two_pin:
+        return Kind.CAPACITOR
+    if prefix in ("L", "FB") and two_pin:
+        return Kind.INDUCTOR
+    if prefix in ("J", "P", "CN", "CON", "X") or component.lib.lower().startswith("conn"):
+        return Kind.CONNECTOR
+    if prefix in ("U", "IC"):
+        return Kind.IC
+    return Kind.OTHER

@@ -1,0 +1,64 @@
+"""Every real netlist in the corpus reads, and its counts match an independent regex scan."""
+
+from __future__ import annotations
+
+import re
+from pathlib import Path
+
+from ledlint.parts import Kind, classify
+from ledlint.reader import read_netlist
+
+# The independent count is the corpus MANIFEST's own method ("How the numbers were
+# counted"): naive regexes over the decoded text, nothing shared with the reader.
+_ATOM = r'"(?:[^"\\]|\\.)*"|[^()\s"]+'
+_COMP = re.compile(r"\(comp\s+\(ref\s")
+_NET = re.compile(r"\(net\s+\(code\s+(?:" + _ATOM + r")\)\s+\(name\s")
+_COMP_BLOCK = re.compile(r"\(comp\s+\(ref\s+(" + _ATOM + r")\)(.*?)(?=\(comp\s+\(ref\s|\(libparts|\Z)", re.S)
+_LEDISH = re.compile(r"LED|WS28|SK68|APA10", re.I)
+_EXCLUDED_REF = re.compile(r"^(J|P|SW|K|TP|CON|U|Brd|MX)")
+
+
+def _field(block: str, head: str) -> str:
+    m = re.search(r"\(" + head + r"\s+(" + _ATOM + ")", block)
+    return m.group(1).strip('"') if m else ""
+
+
+def regex_counts(text: str) -> tuple[int, int, int]:
+    leds = 0
+    for m in _COMP_BLOCK.finditer(text):
+        ref, block = m.group(1).strip('"'), m.group(2)
+        value, part = _field(block, "value"), _field(block, "part")
+        if not (_LEDISH.search(value) or _LEDISH.search(part)):
+            continue
+        if "OLED" in value.upper() or "OLED" in part.upper():
+            continue
+        if _EXCLUDED_REF.match(ref) and not ref.startswith("LED"):
+            continue
+        if re.search(r"conn|_NoLED|SW_", part, re.I):
+            continue
+        leds += 1
+    return len(_COMP.findall(text)), len(_NET.findall(text)), leds
+
+
+def test_every_corpus_file_reads_with_independently_counted_parts(corpus: list[Path]) -> None:
+    assert len(corpus) >= 9
+    for path in corpus:
+        netlist = read_netlist(path)
+        comps, nets, leds = regex_counts(path.read_text(encoding="utf-8"))
+        ours = sum(classify(c) in (Kind.LED, Kind.LED_ADDRESSABLE) for c in netlist.components)
+        assert (len(netlist.components), len(netlist.nets), ours) == (comps, nets, leds), path.name
+        assert netlist.notes == (), path.name
+
+
+def test_the_regex_scan_reproduces_the_manifest_table(corpus: list[Path]) -> None:
+    # The table in ../shared/corpus/real/MANIFEST.md (components, LED-like, nets).
+    manifest = {
+        "logic-probe-rgb-led.net": (7, 9, 1), "tiny-fpga-board.net": (44, 70, 2),
+        "split-keyboard-rgb-underglow.net": (87, 76, 27), "antenna-switch-board.net": (152, 203, 18),
+        "printer-controller-board.net": (356, 288, 13), "sdr-transceiver-mainboard.net": (413, 378, 6),
+        "macropad-rgb-keys.net": (22, 27, 6), "mains-led-lamp-strings.net": (78, 55, 56),
+        "keyboard-per-key-rgb.net": (299, 243, 98),
+    }
+    for path in corpus:
+        if path.name in manifest:
+            assert regex_counts(path.read_text(encoding="utf-8")) == manifest[path.name], path.name
