@@ -1,0 +1,82 @@
+"""Generate large, realistic KiCad 8-style netlists for the benchmarks (invented boards)."""
+
+from __future__ import annotations
+
+import sys
+
+_HEADER = """(export (version "E")
+  (design
+    (source "/home/bench/indicator-wall.kicad_sch")
+    (date "2026-01-01T00:00:00+0000")
+    (tool "Eeschema 8.0.4")
+    (sheet (number "1") (name "/") (tstamps "/")
+      (title_block
+        (title "Indicator wall")
+        (company)
+        (rev "A")
+        (date)
+        (source "indicator-wall.kicad_sch"))))
+  (components
+"""
+
+_COLOURS = ("red", "green", "blue", "yellow", "white")
+
+
+def _comp(ref: str, value: str, footprint: str, part: str, description: str, uuid: int) -> str:
+    return (
+        f'    (comp (ref "{ref}")\n'
+        f'      (value "{value}")\n'
+        f'      (footprint "{footprint}")\n'
+        f'      (description "{description}")\n'
+        f'      (fields\n'
+        f'        (field (name "Footprint") "{footprint}")\n'
+        f'        (field (name "Datasheet"))\n'
+        f'        (field (name "Description") "{description}"))\n'
+        f'      (libsource (lib "Device") (part "{part}") (description "{description}"))\n'
+        f'      (property (name "Sheetname") (value "Root"))\n'
+        f'      (property (name "Sheetfile") (value "indicator-wall.kicad_sch"))\n'
+        f'      (sheetpath (names "/") (tstamps "/"))\n'
+        f'      (tstamps "{uuid:08x}-0000-4000-8000-000000000000"))\n'
+    )
+
+
+def _node(ref: str, pin: str, function: str | None) -> str:
+    extra = f' (pinfunction "{function}")' if function else ""
+    return f'      (node (ref "{ref}") (pin "{pin}"){extra} (pintype "passive"))'
+
+
+def netlist(circuits: int) -> str:
+    """A board with `circuits` LED + resistor pairs on +5V (2 components each)."""
+    out = [_HEADER]
+    for i in range(1, circuits + 1):
+        colour = _COLOURS[i % len(_COLOURS)]
+        out.append(_comp(f"D{i}", f"LED {colour}", "LED_SMD:LED_0603_1608Metric", "LED",
+                         "Light emitting diode", 2 * i))
+        out.append(_comp(f"R{i}", "330", "Resistor_SMD:R_0603_1608Metric", "R", "Resistor", 2 * i + 1))
+    out.append("  )\n  (libparts\n")
+    out.append('    (libpart (lib "Device") (part "LED")\n      (description "Light emitting diode")\n'
+               '      (fields (field (name "Reference") "D") (field (name "Value") "LED"))\n'
+               '      (pins\n        (pin (num "1") (name "K") (type "passive"))\n'
+               '        (pin (num "2") (name "A") (type "passive"))))\n')
+    out.append('    (libpart (lib "Device") (part "R")\n      (description "Resistor")\n'
+               '      (fields (field (name "Reference") "R") (field (name "Value") "R"))\n'
+               '      (pins\n        (pin (num "1") (name "") (type "passive"))\n'
+               '        (pin (num "2") (name "") (type "passive")))))\n')
+    out.append('  (libraries\n    (library (logical "Device")\n'
+               '      (uri "/usr/share/kicad/symbols/Device.kicad_sym")))\n  (nets\n')
+    code = 1
+    out.append(f'    (net (code "{code}") (name "+5V") (class "Default")\n')
+    out.append("\n".join(_node(f"R{i}", "1", None) for i in range(1, circuits + 1)) + ")\n")
+    code += 1
+    out.append(f'    (net (code "{code}") (name "GND") (class "Default")\n')
+    out.append("\n".join(_node(f"D{i}", "1", "K") for i in range(1, circuits + 1)) + ")\n")
+    for i in range(1, circuits + 1):
+        code += 1
+        out.append(f'    (net (code "{code}") (name "Net-(D{i}-A)") (class "Default")\n')
+        out.append(_node(f"D{i}", "2", "A") + "\n" + _node(f"R{i}", "2", None) + ")\n")
+    out.append("  ))\n")
+    return "".join(out)
+
+
+if __name__ == "__main__":
+    sys.stdout.write(netlist(int(sys.argv[1]) if len(sys.argv) > 1 else 10_000))
