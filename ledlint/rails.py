@@ -1,0 +1,155 @@
+"""Supply rails, grounds and mains nets recognised from net names."""
+
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass
+from enum import Enum
+
+from ledlint.units import parse_voltage
+
+
+class RailKind(Enum):
+    """What a rail carries."""
+
+    DC = "dc"
+    GROUND = "ground"
+    AC = "ac"
+
+
+@dataclass(frozen=True)
+class Rail:
+    """A rail's voltage (RMS for AC) with its range and where the numbers come from.
+
+    Minimum and maximum are numeric bounds: for a negative rail the minimum is the most negative.
+    """
+
+    kind: RailKind
+    nominal: float
+    minimum: float
+    maximum: float
+    source: str
+
+
+# A rail named only by its voltage is taken to hold it within ±5 % (common practice).
+DEFAULT_TOLERANCE = 0.05
+# USB VBUS as a device sees it: 4.40 V is the least a low-power USB 2.0 device must work from,
+# 5.50 V the upper limit USB Type-C allows.  The name does not tell the connector, so the
+# widest envelope is taken; a ballast sized for 5.25 V would run hotter at 5.5 V.
+USB_MINIMUM = 4.40
+USB_NOMINAL = 5.0
+USB_MAXIMUM = 5.50
+
+_GROUND = re.compile(r"(?:[ADPSC]?GND(?:[ADPS]|PWR|REF|ISO)?[0-9]*|VSS[AD]?[0-9]*|0V|EARTH)", re.IGNORECASE)
+# Net names KiCad makes up for unnamed nets.
+_GENERATED = re.compile(r"(?:Net|unconnected)-\(", re.IGNORECASE)
+# A voltage written into a name: "5V", "+3V3", "3.3V", "12V0", "-12V", with a kind suffix.
+_VOLTAGE_WORD = re.compile(
+    r"(?P<volts>[+\-]?[0-9]+(?:V[0-9]+|\.[0-9]+V|V))(?P<suffix>A|D|SB|DC|AC|~)?", re.IGNORECASE
+)
+_AC_PREFIX = re.compile(r"~\s*")
+_VBUS_WORDS = frozenset({"VBUS", "VUSB"})
+_USB_WORDS = _VBUS_WORDS | {"USB"}
+# Supply names that carry no voltage.  VREF is left out: a reference is not for loads.
+_SUPPLY_WORDS = frozenset(
+    {
+        "VCC", "VDD", "VIN", "VBAT", "VBATT", "V+", "V", "VPP", "VMOT", "VLED", "VSYS", "VAA", "VM",
+        "VS", "VDDIO", "VCCIO", "VDDA", "VCCA", "VDDD", "VCORE", "VPWR", "VSUP", "VSUPPLY", "VBB",
+        "VEXT", "VMAIN", "VAUX", "VOUT", "VBUS", "VUSB",
+    }
+)  # fmt: skip
+# Words that may stand beside a supply word or a voltage and still name the rail itself.
+# Any other word (EN, PG, SENSE, FB, ON, ...) makes the net a signal about the rail.
+_QUALIFIERS = frozenset(
+    {
+        "USB", "LED", "LEDS", "A", "D", "IO", "AUX", "SYS", "MAIN", "BUS", "IN", "OUT", "REG",
+        "ANA", "DIG", "ISO", "SB", "STBY", "SW", "CORE", "PWR", "DC", "RAIL", "SUPPLY", "MCU",
+        "LOGIC", "FAN", "MOTOR", "FUSED", "EXT", "BAT", "BATT",
+    }
+)  # fmt: skip
+_MAINS_WORDS = frozenset(
+    {"L", "N", "LINE", "NEUTRAL", "MAINS", "LIVE", "PHASE", "AC_L", "AC_N", "AC_LINE", "AC_NEUTRAL"}
+)
+# Nominal line voltages of public mains (100 V to 277 V); lower AC is a transformer secondary.
+_MAINS_RANGE = (100.0, 277.0)
+
+
+def _last_segment(name: str) -> str:
+    """The net's own name without its sheet path ("/power/+5V" gives "+5V")."""
+    return name.strip().rstrip("/").rpartition("/")[2]
+
+
+def _words(name: str) -> list[str]:
+    return [word for word in name.upper().split("_") if word]
+
+
+def rail_from_net_name(name: str) -> Rail | None:
+    """Return the rail a net name states ("+3V3", "GND", "24VAC", "VBUS"), or None.
+
+    A name that carries a voltage next to a signal word ("LED_12V_EN", "3V3_FB") is a signal,
+    not a rail; so is anything unsure, since a false rail gives false alarms.
+    """
+    own = _last_segment(name)
+    if not own or _GENERATED.match(own):
+        return None
+    if _GROUND.fullmatch(own):
+        return Rail(RailKind.GROUND, 0.0, 0.0, 0.0, f"net name '{own}': ground")
+    ac_prefixed = _AC_PREFIX.match(own)
+    words = _words(own[ac_prefixed.end() :] if ac_prefixed else own)
+    voltages = [match for word in words if (match := _VOLTAGE_WORD.fullmatch(word))]
+    others = [word for word in words if not _VOLTAGE_WORD.fullmatch(word) and word != "AC"]
+    if len(voltages) > 1 or not all(word in _QUALIFIERS or word in _SUPPLY_WORDS for word in others):
+        return None
+    is_ac = ac_prefixed is not None or "AC" in words
+    if not voltages:
+        # A bare "USB" may be a data bus; only the VBUS words name the supply without a voltage.
+        return _usb_rail(own) if not is_ac and any(word in _VBUS_WORDS for word in others) else None
+    suffix = (voltages[0].group("suffix") or "").upper()
+    is_ac = is_ac or suffix in ("AC", "~")
+    volts = parse_voltage(voltages[0].group("volts"))
+    if volts is None:
+        return None
+    if not is_ac and volts.value == USB_NOMINAL and any(word in _USB_WORDS for word in others):
+        return _usb_rail(own)
+    if is_ac and volts.value <= 0:
+        return None
+    kind = RailKind.AC if is_ac else RailKind.DC
+    low, high = sorted((volts.value * (1 - DEFAULT_TOLERANCE), volts.value * (1 + DEFAULT_TOLERANCE)))
+    what = "RMS, " if is_ac else ""
+    return Rail(kind, volts.value, low, high, f"net name '{own}': {what}±5 % default")
+
+
+def _usb_rail(own: str) -> Rail:
+    return Rail(
+        RailKind.DC,
+        USB_NOMINAL,
+        USB_MINIMUM,
+        USB_MAXIMUM,
+        f"net name '{own}': USB VBUS, 4.40 V (least a USB 2.0 device must run from) "
+        "to 5.50 V (USB Type-C upper limit)",
+    )
+
+
+def is_supply_name(name: str) -> bool:
+    """True when a name looks like a supply of unknown voltage ("VCC", "VBAT", "+VIN", "V+")."""
+    own = _last_segment(name).lstrip("+")
+    words = _words(own)
+    if not words or rail_from_net_name(name) is not None:
+        return False
+    return any(word in _SUPPLY_WORDS for word in words) and all(
+        word in _SUPPLY_WORDS or word in _QUALIFIERS for word in words
+    )
+
+
+def is_mains_name(name: str) -> bool:
+    """True when a net name marks an AC line conductor ("L", "N", "MAINS", "230VAC").
+
+    "AC1"/"AC2" are not counted: bridge inputs carry those names at any voltage.
+    """
+    own = _last_segment(name)
+    if own.upper() in _MAINS_WORDS:
+        return True
+    rail = rail_from_net_name(name)
+    return (
+        rail is not None and rail.kind is RailKind.AC and _MAINS_RANGE[0] <= rail.nominal <= _MAINS_RANGE[1]
+    )
