@@ -3,12 +3,15 @@
 from __future__ import annotations
 
 import math
+import re
+from pathlib import Path
 
 import pytest
 from hypothesis import given
 from hypothesis import strategies as st
 
 from ledlint.ratings import PowerRating, chip_size, derated_power, rating_from_footprint
+from ledlint.reader import read_netlist
 
 
 # Commonly quoted chip defaults at 70 °C: 0201 1/20, 0402 1/16, 0603 1/10, 0805 1/8, 1206 1/4,
@@ -199,3 +202,22 @@ def test_derating_is_bounded_and_never_rises_with_temperature(
 def test_no_footprint_text_makes_it_raise(footprint: str) -> None:
     rating_from_footprint(footprint)
     chip_size(footprint)
+
+
+def test_every_resistor_footprint_with_a_chip_size_in_the_real_corpus_is_rated(corpus: list[Path]) -> None:
+    # Real netlists (shared corpus): a resistor footprint naming a chip size gets the default
+    # rating of that size (field-facts §3); "R" refs are resistors (common practice).
+    seen = 0
+    for path in corpus:
+        for component in read_netlist(path).components:
+            size = chip_size(component.footprint)
+            if not re.fullmatch(r"R[0-9]+", component.ref) or size is None:
+                continue
+            seen += 1
+            rating = rating_from_footprint(component.footprint)
+            assert rating is not None and size in rating.basis, (
+                path.name,
+                component.ref,
+                component.footprint,
+            )
+    assert seen > 0

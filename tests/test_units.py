@@ -3,11 +3,14 @@
 from __future__ import annotations
 
 import math
+import re
+from pathlib import Path
 
 import pytest
 from hypothesis import given
 from hypothesis import strategies as st
 
+from ledlint.reader import read_netlist
 from ledlint.units import (
     Quantity,
     Unknown,
@@ -425,3 +428,21 @@ def test_rkm_of_random_mantissa_and_multiplier(whole: int, fraction: str, letter
 def test_rkm_leading_r(fraction: str) -> None:
     # IEC 60062 example R47 = 0.47 Ω: a leading R is the decimal point.
     assert ohms(f"R{fraction}") == pytest.approx(float(f"0.{fraction}"), rel=1e-12, abs=0.0)
+
+
+def test_every_numeric_resistor_value_in_the_real_corpus_is_read(corpus: list[Path]) -> None:
+    # Real netlists (shared corpus): a resistor's value that holds a digit must be read; the
+    # rest ("R", "DNP") must come back with a reason.  "R" refs are resistors by the usual
+    # reference-designator letters (common practice).
+    seen = 0
+    for path in corpus:
+        for component in read_netlist(path).components:
+            if not re.fullmatch(r"R[0-9]+", component.ref):
+                continue
+            seen += 1
+            parsed = parse_resistance(component.value)
+            if any(ch.isdigit() for ch in component.value):
+                assert isinstance(parsed, Quantity), (path.name, component.ref, parsed)
+            else:
+                assert isinstance(parsed, Unknown) and parsed.reason, (path.name, component.ref)
+    assert seen > 0
