@@ -15,8 +15,8 @@ from ledlint.reader import read_netlist
 
 
 # Commonly quoted chip defaults at 70 °C: 0201 1/20, 0402 1/16, 0603 1/10, 0805 1/8, 1206 1/4,
-# 1210 1/2, 2010 3/4, 2512 1 W (field-facts §3 "commonly quoted defaults", woyaojiankangwang page
-# and the industrial knowledge-base summary).  01005 1/32 W and 1812 1/2 W, which that line leaves
+# 1210 1/2, 2010 3/4, 2512 1 W (field-facts §3 "commonly quoted defaults", two published summary
+# tables cited there).  01005 1/32 W and 1812 1/2 W, which that line leaves
 # out, from the general-purpose column of the field-facts §3 thick-film table.
 @pytest.mark.parametrize(
     ("footprint", "watts"),
@@ -59,7 +59,7 @@ def test_upper_category_temperature() -> None:
 
 # Footprint names as the standard KiCad library writes them (body dimensions in the names: from
 # memory), matched to the field-facts §3 axial film table: 1/8 W Ø1.5–1.8 × 3.0–3.5 mm,
-# 1/4 W 2.3–2.5 × 6.0–6.5, 1/2 W 3.0–3.2 × 8.5–9, 1 W 4–5 × 11, 2 W 5 × 15 (tokenchina lead-form table).
+# 1/4 W 2.3–2.5 × 6.0–6.5, 1/2 W 3.0–3.2 × 8.5–9, 1 W 4–5 × 11, 2 W 5 × 15 (a resistor maker's lead-form table).
 @pytest.mark.parametrize(
     ("footprint", "watts"),
     [
@@ -75,7 +75,7 @@ def test_axial_rating(footprint: str, watts: float) -> None:
     rating = rating_from_footprint(footprint)
     assert rating is not None
     assert rating.watts == pytest.approx(watts)
-    # Metal-film derating runs from 70 °C to zero at 155 °C (field-facts §3, MF series spec).
+    # Metal-film derating runs from 70 °C to zero at 155 °C (field-facts §3, a published metal-film spec).
     assert rating.upper_category_c == 155.0
 
 
