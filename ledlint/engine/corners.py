@@ -1,0 +1,170 @@
+"""Worst-case corners: every parameter at the end of its range that pushes the current one way."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+from numpy.typing import NDArray
+
+from ledlint.engine.model import Circuit, ModelError, Range
+from ledlint.engine.solver import Cases, OperatingPoint, Setup, Solution
+from ledlint.engine.thermal import heated
+
+Array = NDArray[np.float64]
+
+NOMINAL = "nominal"
+MAX_CURRENT = "max_current"
+MIN_CURRENT = "min_current"
+MAX_RESISTOR_POWER = "max_resistor_power"
+_LOW_R, _HIGH_R = "resistor_power_low_r", "resistor_power_high_r"
+
+
+def _end(r: Range, high: bool) -> float:
+    return r.maximum if high else r.minimum
+
+
+@dataclass(frozen=True)
+class _Row:
+    """One corner's parameter values."""
+
+    name: str
+    drive: float
+    r_series: float
+    r_switch: float
+    v_switch: float
+    r_branch: Array  # (K,)
+    vf: Array  # (L,)
+    ambient: float
+
+
+def _ends(circuit: Circuit, name: str, drive_high: bool, path_high: bool, r_branch: Array,
+          vf: Array, hot: bool) -> _Row:
+    """A corner with the drive, the common path (resistances and switch drop) and the ambient each at one end."""
+    return _Row(name, _end(circuit.drive, drive_high), _end(circuit.r_series, path_high),
+                _end(circuit.r_switch, path_high), _end(circuit.v_switch, path_high), r_branch, vf,
+                _end(circuit.ambient, hot))
+
+
+def _rows(circuit: Circuit) -> list[_Row]:
+    leds, branches = circuit.leds, circuit.branches
+    vf_min = np.array([d.vf.minimum for d in leds])
+    vf_max = np.array([d.vf.maximum for d in leds])
+    r_min = np.array([b.r.minimum for b in branches])
+    r_max = np.array([b.r.maximum for b in branches])
+    rows = [
+        _Row(NOMINAL, circuit.drive.nominal, circuit.r_series.nominal, circuit.r_switch.nominal,
+             circuit.v_switch.nominal, np.array([b.r.nominal for b in branches]),
+             np.array([d.vf.nominal for d in leds]), circuit.ambient.nominal),
+        _ends(circuit, MAX_CURRENT, True, False, r_min, vf_min, True),
+        _ends(circuit, MIN_CURRENT, False, True, r_max, vf_max, False),
+        # Ballast power I²R rises or falls with R depending on R against the rest of the
+        # loop, so both ends are solved at the highest drive and the larger one kept.
+        _ends(circuit, _LOW_R, True, False, r_min, vf_min, True),
+        _ends(circuit, _HIGH_R, True, True, r_max, vf_min, True),
+    ]
+    if len(branches) >= 2:
+        branch_of = np.array(circuit.branch_of_led)
+        for j, k in enumerate(branch_of):
+            mine, own_r = branch_of == k, np.arange(len(branches)) == k
+            # LED j's whole string at its lowest Vf and least resistance, the other strings
+            # at their highest, so that the string takes the largest share: it hogs.
+            rows.append(_ends(circuit, f"worst_high[{j}]", True, False,
+                              np.where(own_r, r_min, r_max), np.where(mine, vf_min, vf_max), True))
+            rows.append(_ends(circuit, f"worst_low[{j}]", False, True,
+                              np.where(own_r, r_max, r_min), np.where(mine, vf_max, vf_min), False))
+    return rows
+
+
+def _cases(circuit: Circuit, rows: list[_Row]) -> Cases:
+    return Cases.build(
+        circuit,
+        len(rows),
+        drive=[r.drive for r in rows],
+        r_series=[r.r_series for r in rows],
+        r_switch=[r.r_switch for r in rows],
+        v_switch=[r.v_switch for r in rows],
+        r_branch=np.array([r.r_branch for r in rows]),
+        vf=np.array([r.vf for r in rows]),
+        ambient=[r.ambient for r in rows],
+    )
+
+
+@dataclass(frozen=True)
+class Corners:
+    """The named corner cases of a circuit and their self-heated solutions, one row each."""
+
+    names: tuple[str, ...]
+    cases: Cases
+    solution: Solution
+
+    def index(self, name: str) -> int:
+        try:
+            return self.names.index(name)
+        except ValueError:
+            raise ModelError(f"no corner named {name!r}; corners are {', '.join(self.names)}") from None
+
+    def point(self, name: str) -> OperatingPoint:
+        return self.solution.point(self.index(name))
+
+    @property
+    def nominal(self) -> OperatingPoint:
+        return self.point(NOMINAL)
+
+    @property
+    def max_current(self) -> OperatingPoint:
+        return self.point(MAX_CURRENT)
+
+    @property
+    def min_current(self) -> OperatingPoint:
+        return self.point(MIN_CURRENT)
+
+    @property
+    def max_resistor_power(self) -> OperatingPoint:
+        return self.point(MAX_RESISTOR_POWER)
+
+    def _per_led(self, prefix: str) -> tuple[OperatingPoint, ...]:
+        return tuple(self.solution.point(s) for s, name in enumerate(self.names)
+                     if name.startswith(prefix))
+
+    @property
+    def worst_high(self) -> tuple[OperatingPoint, ...]:
+        """Per LED, the corner where it hogs (banks only; empty for one string)."""
+        return self._per_led("worst_high[")
+
+    @property
+    def worst_low(self) -> tuple[OperatingPoint, ...]:
+        """Per LED, the corner where it is starved (banks only; empty for one string)."""
+        return self._per_led("worst_low[")
+
+    @property
+    def led_current_max(self) -> Array:
+        """Each LED's largest current over all corners, (L,)."""
+        return self.solution.led_current.max(axis=0)
+
+    @property
+    def led_current_min(self) -> Array:
+        return self.solution.led_current.min(axis=0)
+
+    @property
+    def ballast_power_max(self) -> float:
+        return float(self.solution.ballast_power.max())
+
+    @property
+    def branch_resistor_power_max(self) -> Array:
+        return self.solution.branch_resistor_power.max(axis=0)
+
+
+def corners(circuit: Circuit) -> Corners:
+    """Solve the nominal and worst-case corners of ``circuit``, with self-heating where Rth is known."""
+    rows = _rows(circuit)
+    cases = _cases(circuit, rows)
+    solution = heated(Setup.of(circuit), cases)
+    names = [r.name for r in rows]
+    power = solution.ballast_power + solution.branch_resistor_power.sum(axis=1)
+    low, high = names.index(_LOW_R), names.index(_HIGH_R)
+    keep, drop = (low, high) if power[low] >= power[high] else (high, low)
+    names[keep] = MAX_RESISTOR_POWER
+    rows_kept = np.array([s for s in range(len(names)) if s != drop])
+    return Corners(names=tuple(names[s] for s in rows_kept), cases=cases.take(rows_kept),
+                   solution=solution.take(rows_kept))
