@@ -1,0 +1,250 @@
+"""Configuration: `ledlint.toml`, `[tool.ledlint]` in pyproject.toml, or --config; strictly checked.
+
+Every table and key is known here except the options inside `[rules.<id>]`, which the rule
+registry checks against each rule's declared options. An unknown key or a malformed value is
+a ConfigError that names the key and suggests the nearest valid one.
+"""
+
+from __future__ import annotations
+
+import difflib
+import re
+import tomllib
+from dataclasses import dataclass, field
+from pathlib import Path
+from types import MappingProxyType
+from typing import Any, Mapping
+
+from ledlint.errors import ConfigError
+from ledlint.units import Quantity, parse_current, parse_temperature, parse_tolerance, parse_voltage
+
+CONFIG_NAME = "ledlint.toml"
+
+# Part parameters, by the names a schematic field carries too (matched without case).
+LED_KEYS = ("Vf", "Vf_min", "Vf_max", "If_max", "Vr_max", "Rth", "colour")
+RESISTOR_KEYS = ("Tolerance", "Power")
+PIN_KEYS = ("pin_current_max",)
+DRIVER_KEYS = ("driver", "sense_pins", "output_pin", "vref", "vref_tolerance", "current", "current_tolerance",
+               "current_max", "dropout", "vin_min", "vin_max", "vout_max")
+PART_KEYS = LED_KEYS + RESISTOR_KEYS + PIN_KEYS + DRIVER_KEYS
+WAIVER_FIELD = "ledlint_waive"  # a schematic field: "rule-id[, rule-id]: reason"
+SEVERITIES = ("error", "warning", "info", "off")
+
+_TOP_KEYS = ("ambient", "rails", "refs", "values", "symbols", "rules", "waivers")
+_RAIL_KEYS = ("nominal", "min", "max", "tolerance")
+_AMBIENT_KEYS = ("min", "max")
+_WAIVER_KEYS = ("rule", "ref", "fingerprint", "reason")
+
+
+@dataclass(frozen=True)
+class RailSetting:
+    """A rail's voltage as configured (volts)."""
+
+    nominal: float
+    minimum: float
+    maximum: float
+
+
+@dataclass(frozen=True)
+class Waiver:
+    """Silences one rule on one component (or one exact finding, by fingerprint)."""
+
+    rule: str
+    reason: str
+    ref: str = ""
+    fingerprint: str = ""
+    origin: str = ""  # where it was written: a config file, or "field ledlint_waive on R3"
+
+
+def _empty() -> Mapping[str, Any]:
+    return MappingProxyType({})
+
+
+@dataclass(frozen=True)
+class Config:
+    """Everything a configuration file can say; the defaults when there is none."""
+
+    path: str = ""
+    ambient_min_c: float = 0.0  # a heated, indoor product (common practice)
+    ambient_max_c: float = 40.0
+    rails: Mapping[str, RailSetting] = field(default_factory=_empty)
+    refs: Mapping[str, Mapping[str, str]] = field(default_factory=_empty)
+    values: Mapping[str, Mapping[str, str]] = field(default_factory=_empty)
+    symbols: Mapping[str, Mapping[str, str]] = field(default_factory=_empty)
+    rules: Mapping[str, Mapping[str, Any]] = field(default_factory=_empty)  # checked by the registry
+    waivers: tuple[Waiver, ...] = ()
+
+    def part_settings(self, ref: str, value: str, lib: str, part: str) -> dict[str, tuple[str, str]]:
+        """Configured parameters for one component: key → (text, where it was set).
+
+        A reference beats a value, a value beats a symbol name.
+        """
+        out: dict[str, tuple[str, str]] = {}
+        for table, key, label in ((self.symbols, f"{lib}:{part}", "symbols"), (self.symbols, part, "symbols"),
+                                  (self.values, value, "values"), (self.refs, ref, "refs")):
+            for k, v in table.get(key, {}).items():
+                out[k] = (v, f"{self.path or CONFIG_NAME} [{label}.{key!r}]")
+        return out
+
+
+def suggest(word: str, choices: tuple[str, ...] | list[str]) -> str:
+    near = difflib.get_close_matches(word, list(choices), n=1, cutoff=0.5)
+    return f"; did you mean {near[0]!r}?" if near else f"; valid: {', '.join(choices)}"
+
+
+def _check_keys(table: Mapping[str, Any], valid: tuple[str, ...], where: str, path: str) -> None:
+    lookup = {k.casefold(): k for k in valid}
+    for key in table:
+        if key.casefold() not in lookup:
+            raise ConfigError(f"{where}: unknown key {key!r}{suggest(key, valid)}", path)
+
+
+def _table(value: Any, where: str, path: str) -> Mapping[str, Any]:
+    if not isinstance(value, dict):
+        raise ConfigError(f"{where} must be a table, not {type(value).__name__}", path)
+    return value
+
+
+def _volts(value: Any, where: str, path: str) -> float:
+    if isinstance(value, (int, float)) and not isinstance(value, bool):
+        return float(value)
+    q = parse_voltage(str(value)) if isinstance(value, str) else None
+    if q is None:
+        raise ConfigError(f"{where}: {value!r} is not a voltage (write 5.0 or \"5V\")", path)
+    return q.value
+
+
+def _rail(name: str, raw: Any, path: str) -> RailSetting:
+    where = f"[rails.{name!r}]"
+    if not isinstance(raw, dict):
+        v = _volts(raw, where, path)
+        raw = {"nominal": v}
+    _check_keys(raw, _RAIL_KEYS, where, path)
+    if "nominal" not in raw:
+        raise ConfigError(f"{where}: 'nominal' is required", path)
+    nominal = _volts(raw["nominal"], where + " nominal", path)
+    tol = 0.05  # ±5 % when only a nominal is given (rails.py default, common practice)
+    if "tolerance" in raw:
+        t = raw["tolerance"]
+        q = parse_tolerance(t) if isinstance(t, str) else None
+        tol = q.value if q else (float(t) if isinstance(t, (int, float)) and not isinstance(t, bool) else -1.0)
+        if not 0 <= tol < 1:
+            raise ConfigError(f"{where} tolerance: {t!r} is not a tolerance (write \"5%\" or 0.05)", path)
+    lo = _volts(raw["min"], where + " min", path) if "min" in raw else nominal - abs(nominal) * tol
+    hi = _volts(raw["max"], where + " max", path) if "max" in raw else nominal + abs(nominal) * tol
+    if not lo <= nominal <= hi:
+        raise ConfigError(f"{where}: needs min <= nominal <= max, got {lo} / {nominal} / {hi}", path)
+    return RailSetting(nominal, lo, hi)
+
+
+def _parts(table: Any, label: str, path: str) -> Mapping[str, Mapping[str, str]]:
+    out = {}
+    canonical = {k.casefold(): k for k in PART_KEYS}
+    for key, raw in _table(table, f"[{label}]", path).items():
+        where = f"[{label}.{key!r}]"
+        settings = _table(raw, where, path)
+        _check_keys(settings, PART_KEYS, where, path)
+        out[key] = MappingProxyType({canonical[k.casefold()]: _text(v, f"{where} {k}", path)
+                                     for k, v in settings.items()})
+    return MappingProxyType(out)
+
+
+def _text(value: Any, where: str, path: str) -> str:
+    if isinstance(value, bool):
+        raise ConfigError(f"{where}: expected a value such as \"2.0V@20mA\", not {value}", path)
+    if isinstance(value, (int, float, str)):
+        return str(value)
+    if isinstance(value, list) and all(isinstance(v, str) for v in value):
+        return ",".join(value)
+    raise ConfigError(f"{where}: expected text or a number, not {type(value).__name__}", path)
+
+
+def _temperature(value: Any, where: str, path: str) -> float:
+    if isinstance(value, (int, float)) and not isinstance(value, bool):
+        return float(value)
+    q: Quantity | None = parse_temperature(value) if isinstance(value, str) else None
+    if q is None:
+        raise ConfigError(f"{where}: {value!r} is not a temperature in °C", path)
+    return q.value
+
+
+def _waivers(raw: Any, path: str) -> tuple[Waiver, ...]:
+    if not isinstance(raw, list):
+        raise ConfigError("waivers must be an array of tables: [[waivers]]", path)
+    out = []
+    for i, w in enumerate(raw, start=1):
+        where = f"[[waivers]] #{i}"
+        w = _table(w, where, path)
+        _check_keys(w, _WAIVER_KEYS, where, path)
+        if not w.get("rule") or not w.get("reason"):
+            raise ConfigError(f"{where}: a waiver needs 'rule' and 'reason'", path)
+        if not (w.get("ref") or w.get("fingerprint")):
+            raise ConfigError(f"{where}: a waiver names a component ('ref') or a finding ('fingerprint')", path)
+        out.append(Waiver(str(w["rule"]), str(w["reason"]), str(w.get("ref", "")), str(w.get("fingerprint", "")),
+                          f"{path or CONFIG_NAME} {where}"))
+    return tuple(out)
+
+
+def from_mapping(data: Mapping[str, Any], path: str = "") -> Config:
+    """Build a Config from parsed TOML, raising ConfigError on anything unknown or malformed."""
+    _check_keys(data, _TOP_KEYS, "top level", path)
+    data = {k.casefold(): v for k, v in data.items()}
+    kwargs: dict[str, Any] = {"path": path}
+    if "ambient" in data:
+        amb = _table(data["ambient"], "[ambient]", path)
+        _check_keys(amb, _AMBIENT_KEYS, "[ambient]", path)
+        lo = _temperature(amb.get("min", Config.ambient_min_c), "[ambient] min", path)
+        hi = _temperature(amb.get("max", Config.ambient_max_c), "[ambient] max", path)
+        if lo > hi:
+            raise ConfigError(f"[ambient]: min {lo} °C is above max {hi} °C", path)
+        kwargs.update(ambient_min_c=lo, ambient_max_c=hi)
+    if "rails" in data:
+        kwargs["rails"] = MappingProxyType({n: _rail(n, r, path) for n, r in _table(data["rails"], "[rails]", path).items()})
+    for label in ("refs", "values", "symbols"):
+        if label in data:
+            kwargs[label] = _parts(data[label], label, path)
+    if "rules" in data:
+        rules = _table(data["rules"], "[rules]", path)
+        kwargs["rules"] = MappingProxyType({k: MappingProxyType(dict(_table(v, f"[rules.{k}]", path)))
+                                            for k, v in rules.items()})
+    if "waivers" in data:
+        kwargs["waivers"] = _waivers(data["waivers"], path)
+    return Config(**kwargs)
+
+
+def load(path: str | Path) -> Config:
+    """Read a ledlint.toml file, or the [tool.ledlint] table of a pyproject.toml."""
+    p = Path(path)
+    name = str(path)
+    try:
+        data = tomllib.loads(p.read_text(encoding="utf-8"))
+    except FileNotFoundError:
+        raise ConfigError("no such configuration file", name) from None
+    except (OSError, UnicodeDecodeError) as exc:
+        raise ConfigError(f"cannot read the configuration: {exc}", name) from None
+    except tomllib.TOMLDecodeError as exc:
+        m = re.search(r"\(at line (\d+), column (\d+)\)", str(exc))
+        line, col = (int(m.group(1)), int(m.group(2))) if m else (0, 0)
+        reason = str(exc)[: m.start()].strip() if m else str(exc)
+        raise ConfigError(f"not valid TOML: {reason}", name, line, col) from None
+    if p.name == "pyproject.toml":
+        data = data.get("tool", {}).get("ledlint", {})
+    return from_mapping(data, name)
+
+
+def discover(netlist_path: str | Path) -> Path | None:
+    """The configuration that applies to a netlist: the nearest ledlint.toml, or pyproject.toml
+    with a [tool.ledlint] table, in the netlist's folder or a parent folder."""
+    folder = Path(netlist_path).resolve().parent
+    for d in (folder, *folder.parents):
+        candidate = d / CONFIG_NAME
+        if candidate.is_file():
+            return candidate
+        py = d / "pyproject.toml"
+        if py.is_file():
+            try:
+                if "ledlint" in tomllib.loads(py.read_text(encoding="utf-8")).get("tool", {}):
+                    return py
+            except (OSError, UnicodeDecodeError, tomllib.TOMLDecodeError):
+                continue
+    return None
