@@ -1,0 +1,295 @@
+"""Electrical parameters of parts and rails, each with where it came from.
+
+Precedence, most specific first: the configuration's [refs] table, a field on the part, the
+configuration's [values] and [symbols] tables, the value text, the footprint, a built-in
+default. Missing means missing: a parameter that cannot be found is a `Missing`, never a zero.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from enum import Enum
+from typing import Callable
+
+from ledlint.config import Config
+from ledlint.ledtypes import (AMBIGUOUS_GREEN, INDICATOR_IF_MAX, INDICATOR_RTH, SPREAD, TECHNOLOGIES, TEST_CURRENT,
+                              VR_MAX, Technology, colour_from_text, die_colour, is_indicator_footprint,
+                              series_resistance)
+from ledlint.model import Component
+from ledlint.rails import RailKind, rail_from_net_name
+from ledlint.ratings import rating_from_footprint
+from ledlint.units import (Quantity, Unknown, parse_current, parse_power, parse_resistance,
+                           parse_thermal_resistance, parse_tolerance, parse_vf, parse_voltage)
+
+
+class Origin(Enum):
+    """Where a parameter's value came from."""
+
+    CONFIG = "configuration"
+    FIELD = "schematic field"
+    VALUE = "value text"
+    FOOTPRINT = "footprint"
+    NET_NAME = "net name"
+    DEFAULT = "built-in default"
+
+
+@dataclass(frozen=True)
+class Param:
+    """A value in SI units (temperatures in °C) and its provenance."""
+
+    value: float
+    origin: Origin
+    detail: str  # e.g. "field Vf = '2.1V@20mA'" or "red LED table (field-facts §5a)"
+
+    @property
+    def assumed(self) -> bool:
+        return self.origin in (Origin.DEFAULT, Origin.NET_NAME)
+
+    def describe(self) -> str:
+        return f"{self.detail} ({self.origin.value})"
+
+
+@dataclass(frozen=True)
+class Missing:
+    """A parameter that could not be found, and what to add."""
+
+    name: str
+    reason: str
+    fix: str
+
+
+@dataclass(frozen=True)
+class _Text:
+    text: str
+    origin: Origin
+    detail: str
+
+
+def _lookup(component: Component, config: Config, key: str) -> _Text | None:
+    """A named parameter's text from configuration or fields, in precedence order."""
+    settings = config.part_settings(component.ref, component.value, component.lib, component.part)
+    ref_only = config.part_settings(component.ref, "\0", "\0", "\0")
+    if key in ref_only:
+        return _Text(ref_only[key][0], Origin.CONFIG, ref_only[key][1])
+    field = component.field(key)
+    if field is not None and field.strip():
+        return _Text(field, Origin.FIELD, f"field {key} = {field!r} on {component.ref}")
+    if key in settings:
+        return _Text(settings[key][0], Origin.CONFIG, settings[key][1])
+    return None
+
+
+def _quantity(component: Component, config: Config, keys: tuple[str, ...],
+              parse: Callable[[str], Quantity | None]) -> tuple[Param | None, _Text | None]:
+    for key in keys:
+        found = _lookup(component, config, key)
+        if found is not None:
+            q = parse(found.text)
+            return (Param(q.value, found.origin, found.detail) if q else None), found
+    return None, None
+
+
+# ---------------------------------------------------------------- resistors
+
+@dataclass(frozen=True)
+class ResistorParams:
+    ref: str
+    resistance: Param | Missing
+    tolerance: Param
+    power: Param | Missing  # rated dissipation at 70 °C
+    upper_category_c: float  # where the IEC 60115-1 derating line reaches zero
+
+
+# ±5 % (IEC 60062 letter J) is the tolerance of general-purpose resistors (common practice).
+DEFAULT_TOLERANCE = 0.05
+DEFAULT_UPPER_CATEGORY_C = 155.0  # thick and metal film (field-facts §4)
+
+
+def resistor_params(component: Component, config: Config) -> ResistorParams:
+    parsed = parse_resistance(component.value)
+    if isinstance(parsed, Unknown):
+        resistance: Param | Missing = Missing("resistance", f"{component.ref}: {parsed.reason}",
+                                              f"give {component.ref} a value such as 330R or 4k7")
+    else:
+        resistance = Param(parsed.value, Origin.VALUE, f"value {component.value!r}")
+    tolerance, _ = _quantity(component, config, ("Tolerance",), parse_tolerance)
+    if tolerance is None:
+        q = parse_tolerance(component.value)
+        tolerance = (Param(q.value, Origin.VALUE, f"value {component.value!r}") if q else
+                     Param(DEFAULT_TOLERANCE, Origin.DEFAULT, "±5 %, the general-purpose tolerance"))
+    power, _ = _quantity(component, config, ("Power",), parse_power)
+    upper = DEFAULT_UPPER_CATEGORY_C
+    if power is None:
+        q = parse_power(component.value)
+        rating = rating_from_footprint(component.footprint)
+        if q:
+            power = Param(q.value, Origin.VALUE, f"value {component.value!r}")
+        elif rating:
+            power = Param(rating.watts, Origin.FOOTPRINT, rating.basis)
+            upper = rating.upper_category_c
+    if rating := rating_from_footprint(component.footprint):
+        upper = rating.upper_category_c
+    return ResistorParams(component.ref, resistance, tolerance, power or Missing(
+        "power rating", f"{component.ref}: no Power field and footprint {component.footprint!r} "
+        "does not tell a rating", f"add a field Power (e.g. Power = 0.25W) to {component.ref}"), upper)
+
+
+# ---------------------------------------------------------------- LEDs
+
+@dataclass(frozen=True)
+class LedParams:
+    """One die's parameters. `vf` is at `i_test`, 25 °C."""
+
+    ref: str
+    die: str
+    technology: str  # "" when unknown
+    vf: Param | Missing
+    vf_min: Param | Missing
+    vf_max: Param | Missing
+    i_test: Param
+    if_max: Param | Missing
+    if_max_upper: float | None  # for an assumed rating: the top of the package class's range
+    vr_max: Param
+    rth: Param | None
+    tc: Param
+    n: float
+    r_s: float
+    ambiguity: str = ""  # why the technology, and so Vf, is uncertain
+
+    @property
+    def id(self) -> str:
+        return f"{self.ref}:{self.die}" if self.die else self.ref
+
+    @property
+    def complete(self) -> bool:
+        return not any(isinstance(p, Missing) for p in (self.vf, self.vf_min, self.vf_max))
+
+
+def _die_key(key: str, die: str) -> tuple[str, ...]:
+    return (f"{key}_{die}", key) if die else (key,)
+
+
+def _technology(component: Component, config: Config, die: str) -> tuple[str | None, str]:
+    found = None
+    for key in _die_key("colour", die):
+        found = _lookup(component, config, key)
+        if found:
+            break
+    if found:
+        return colour_from_text(found.text), found.detail
+    if die:
+        colour = die_colour(die)
+        if colour:
+            return colour, f"die {die} of {component.ref}"
+    text = " ".join([component.value, component.part, component.description,
+                     *(v for k, v in component.fields.items() if k.casefold() == "description")])
+    return colour_from_text(text), f"colour named in {component.ref}'s value or description"
+
+
+def led_params(component: Component, config: Config, die: str = "") -> LedParams:
+    colour, colour_where = _technology(component, config, die)
+    tech: Technology | None = TECHNOLOGIES.get(colour or "")
+    ambiguity = ""
+    if colour == AMBIGUOUS_GREEN:
+        ambiguity = ("green may be GaP (about 2.2 V) or InGaN (about 3.2 V); "
+                     "add a Vf field or say which in the value")
+    elif colour is None:
+        ambiguity = "the colour is not stated in the value, part, description or fields"
+
+    i_test = Param(TEST_CURRENT, Origin.DEFAULT, "20 mA, the usual datasheet test current")
+    vf: Param | Missing
+    vf_field = None
+    for key in _die_key("Vf", die):
+        vf_field = _lookup(component, config, key)
+        if vf_field:
+            break
+    if vf_field and (parsed := parse_vf(vf_field.text)):
+        vq, iq = parsed
+        vf = Param(vq.value, vf_field.origin, vf_field.detail)
+        if iq is not None:
+            i_test = Param(iq.value, vf_field.origin, vf_field.detail)
+    elif tech:
+        vf = Param(tech.vf_typ, Origin.DEFAULT, f"{tech.name} LED, typical ({tech.source}; {colour_where})")
+    else:
+        vf = Missing("Vf", f"{component.ref}{':' + die if die else ''}: {ambiguity or 'no Vf'}",
+                     f"add a field Vf (e.g. Vf = 2.0V@20mA) to {component.ref}")
+
+    def bound(key: str, table_value: float | None, sign: int) -> Param | Missing:
+        p, _ = _quantity(component, config, _die_key(key, die), parse_voltage)
+        if p:
+            return p
+        if isinstance(vf, Param) and (vf.origin is not Origin.DEFAULT or table_value is None):
+            return Param(vf.value * (1 + sign * SPREAD), vf.origin, f"{vf.detail}, ±10 % spread assumed")
+        if isinstance(vf, Param) and table_value is not None:
+            return Param(table_value, Origin.DEFAULT, f"{tech.name} LED table ({tech.source})")
+        return Missing(key, vf.reason if isinstance(vf, Missing) else key, f"add a field {key} to {component.ref}")
+
+    vf_max = bound("Vf_max", tech.vf_max if tech else None, +1)
+    vf_min = bound("Vf_min", None, -1)
+
+    if_max, _ = _quantity(component, config, _die_key("If_max", die), parse_current)
+    if_upper = None
+    if if_max is None:
+        if is_indicator_footprint(component.footprint):
+            lo, if_upper = INDICATOR_IF_MAX
+            if_max = Param(lo, Origin.DEFAULT, "20 mA, the common rating of small indicator LEDs (20-30 mA)")
+        else:
+            if_max = Missing("If_max", f"{component.ref}: no If_max field, and footprint "
+                             f"{component.footprint!r} is not a small indicator package",
+                             f"add a field If_max (e.g. If_max = 350mA) to {component.ref}")
+    vr_max, _ = _quantity(component, config, _die_key("Vr_max", die), parse_voltage)
+    vr_max = vr_max or Param(VR_MAX, Origin.DEFAULT, "5 V, the usual LED reverse-voltage rating")
+    rth, _ = _quantity(component, config, _die_key("Rth", die), parse_thermal_resistance)
+    if rth is None and is_indicator_footprint(component.footprint):
+        rth = Param(INDICATOR_RTH, Origin.DEFAULT, "400 K/W, a small indicator package")
+    tc = Param(tech.tc if tech else -0.002, Origin.DEFAULT,
+               f"{(tech.tc if tech else -0.002) * 1000:.1f} mV/K, {tech.name if tech else 'general'} LED")
+    rating = if_max.value if isinstance(if_max, Param) else i_test.value * 1.5
+    return LedParams(
+        ref=component.ref, die=die, technology=tech.name if tech else (colour or ""), vf=vf, vf_min=vf_min,
+        vf_max=vf_max, i_test=i_test, if_max=if_max, if_max_upper=if_upper, vr_max=vr_max, rth=rth, tc=tc,
+        n=tech.n if tech else 2.0, r_s=series_resistance(rating),
+        ambiguity=ambiguity if not isinstance(vf, Param) or vf.origin is Origin.DEFAULT else "",
+    )
+
+
+# ---------------------------------------------------------------- rails and pins
+
+@dataclass(frozen=True)
+class RailParams:
+    net: str
+    nominal: float
+    minimum: float
+    maximum: float
+    origin: Origin
+    detail: str
+    ground: bool = False
+    ac: bool = False
+
+
+def rail_params(net: str, config: Config) -> RailParams | None:
+    """The voltage of a net from configuration or its name; None when neither tells."""
+    short = net.rstrip("/").rsplit("/", 1)[-1] if "/" in net.strip("/") or net.startswith("/") else net
+    for key in (net, short):
+        if key in config.rails:
+            r = config.rails[key]
+            return RailParams(net, r.nominal, r.minimum, r.maximum, Origin.CONFIG,
+                              f"{config.path or 'ledlint.toml'} [rails.{key!r}]", ground=r.nominal == 0)
+    rail = rail_from_net_name(net)
+    if rail is None:
+        return None
+    return RailParams(net, rail.nominal, rail.minimum, rail.maximum, Origin.NET_NAME, rail.source,
+                      ground=rail.kind is RailKind.GROUND, ac=rail.kind is RailKind.AC)
+
+
+# A controller pin's continuous current, when its datasheet is not given (the issue's default;
+# typical GPIO ratings are 8-25 mA, field-facts §9).
+PIN_LIMIT = 0.020
+# Output resistance of a GPIO pin driving an LED: ≈ 40-45 Ω for an AVR at 20 mA / 5 V and
+# ≈ 65 Ω worst case for an STM32 at 20 mA (field-facts §9, derived there; common practice).
+PIN_RESISTANCE = (40.0, 50.0, 65.0)
+
+
+def pin_limit(component: Component, config: Config) -> Param:
+    p, _ = _quantity(component, config, ("pin_current_max",), parse_current)
+    return p or Param(PIN_LIMIT, Origin.DEFAULT, "20 mA per pin, a typical GPIO rating")
