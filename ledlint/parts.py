@@ -108,6 +108,42 @@ def is_addressable(component: Component) -> bool:
     return len(component.pins) == 4 or bool(_ADDRESSABLE_WORDS.search(_text(component)))
 
 
+# The JEDEC TO-236 (SOT-23) pinout most three-pin transistors use: 1 base/gate,
+# 2 emitter/source, 3 collector/drain (common practice; KiCad's Q_NPN_BEC and Q_NMOS_GSD agree).
+SOT23_ROLES = {"B": "1", "E": "2", "C": "3", "G": "1", "S": "2", "D": "3"}
+_TRANSISTOR_WORDS = (
+    (re.compile(r"(?<![a-z])npn(?![a-z])", re.I), "npn"),
+    (re.compile(r"(?<![a-z])pnp(?![a-z])", re.I), "pnp"),
+    (re.compile(r"n[- ]?channel|n[- ]?mos|nfet|n-fet", re.I), "nmos"),
+    (re.compile(r"p[- ]?channel|p[- ]?mos|pfet|p-fet", re.I), "pmos"),
+)
+
+
+def transistor_pins(component: Component) -> tuple[dict[str, str], str]:
+    """Role (B/C/E or G/D/S) → pin number, and the assumption made, if any."""
+    by_name = {_pin_name(p): p.number for p in component.pins}
+    if {"B", "C", "E"} <= set(by_name) or {"G", "D", "S"} <= set(by_name):
+        return {r: by_name[r] for r in "BCEGDS" if r in by_name}, ""
+    numbers = {p.number for p in component.pins}
+    if numbers == {"1", "2", "3"}:
+        return dict(SOT23_ROLES), "pins unnamed; SOT-23 order assumed (1 base/gate, 2 emitter/source, 3 collector/drain)"
+    return {}, ""
+
+
+def _transistor_kind(component: Component, text: str) -> Kind | None:
+    roles, _ = transistor_pins(component)
+    if not roles:
+        return None
+    named = {_pin_name(p) for p in component.pins}
+    words = [kind for pattern, kind in _TRANSISTOR_WORDS if pattern.search(text)]
+    if {"B", "C", "E"} <= named:
+        return Kind.PNP if "pnp" in words else Kind.NPN
+    if {"G", "D", "S"} <= named:
+        return Kind.PMOS if "pmos" in words else Kind.NMOS
+    return {"npn": Kind.NPN, "pnp": Kind.PNP, "nmos": Kind.NMOS, "pmos": Kind.PMOS}.get(words[0]) if len(words) == 1 \
+        else None
+
+
 def classify(component: Component) -> Kind:
     """The component's kind (see Kind)."""
     text = _text(component)
@@ -118,10 +154,9 @@ def classify(component: Component) -> Kind:
     if _WORD_LED.search(text) and led_dies(component):
         return Kind.LED
     names = {_pin_name(p) for p in component.pins}
-    if {"B", "C", "E"} <= names:
-        return Kind.PNP if "pnp" in lower else Kind.NPN
-    if {"G", "D", "S"} <= names:
-        return Kind.PMOS if re.search(r"pmos|p-mos|p-ch|p ch|pfet|p-fet", lower) else Kind.NMOS
+    transistor = _transistor_kind(component, text)
+    if transistor is not None:
+        return transistor
     if "bridge" in lower or {"+", "-"} <= names and len(component.pins) == 4:
         return Kind.BRIDGE
     if names >= {"A", "K"} and len(component.pins) <= 3:

@@ -1,0 +1,277 @@
+"""Series elements, the segments they chain into, and what the nets at segment ends are.
+
+A segment is a maximal chain of two-terminal elements (resistors, LED dies, diodes, the
+collector-emitter or drain-source path of a transistor, wire-like parts) joined through nets
+that hold exactly those two element ends and nothing else that conducts at DC. Capacitors,
+test points, not-fitted parts and no-connect pins are ignored: they carry no DC current.
+"""
+
+from __future__ import annotations
+
+import re
+from collections import deque
+from dataclasses import dataclass
+from enum import Enum
+
+from ledlint.config import Config
+from ledlint.graph import NetGraph
+from ledlint.model import Component, Pin, PinType
+from ledlint.params import rail_params
+from ledlint.parts import Kind, classify, led_dies, transistor_pins
+from ledlint.rails import is_supply_name
+
+
+class ElementKind(Enum):
+    RESISTOR = "resistor"
+    LED = "led"
+    DIODE = "diode"
+    SWITCH = "switch"  # a transistor's main path; its base or gate is the control
+    REGULATOR = "regulator"  # a two-terminal constant-current part
+    WIRE = "wire"  # inductors, ferrite beads, fuses: a short at DC
+
+
+@dataclass(frozen=True)
+class Element:
+    """A two-terminal path through a part, oriented so that forward current flows a → b."""
+
+    ref: str
+    kind: ElementKind
+    a: str  # pin numbers
+    b: str
+    net_a: str
+    net_b: str
+    die: str = ""
+    part: Kind = Kind.OTHER
+    control: str = ""  # base or gate pin number of a switch
+    against: bool = False  # placed in a chain against its own forward direction
+    assumption: str = ""  # e.g. an assumed pinout
+
+    @property
+    def id(self) -> str:
+        return f"{self.ref}:{self.die}" if self.die else self.ref
+
+    def flipped(self) -> Element:
+        return Element(self.ref, self.kind, self.b, self.a, self.net_b, self.net_a, self.die, self.part,
+                       self.control, not self.against, self.assumption)
+
+    @property
+    def polar(self) -> bool:
+        return self.kind in (ElementKind.LED, ElementKind.DIODE, ElementKind.SWITCH, ElementKind.REGULATOR)
+
+
+@dataclass(frozen=True)
+class Segment:
+    """Elements in series between two junction or terminal nets, listed top to bottom."""
+
+    elements: tuple[Element, ...]
+    top: str
+    bottom: str
+    conflict: str = ""  # why the polar elements cannot all conduct, if they cannot
+
+    @property
+    def leds(self) -> tuple[Element, ...]:
+        return tuple(e for e in self.elements if e.kind is ElementKind.LED)
+
+
+class TerminalKind(Enum):
+    RAIL = "rail"  # a net whose voltage is known (name or configuration)
+    GROUND = "ground"
+    SUPPLY = "supply"  # looks like a supply, voltage not known
+    PIN = "controller-pin"  # an IC output pin drives it
+    CONNECTOR = "connector"  # goes off the board
+    NODE = "node"  # only element ends: an inner junction of an LED structure
+    OTHER = "other"
+
+
+@dataclass(frozen=True)
+class Terminal:
+    net: str
+    kind: TerminalKind
+    pin: Pin | None = None  # the IC or connector pin that makes it a terminal
+    detail: str = ""
+
+
+# How likely a pin type is to be what drives an LED (kicad-netlist-format.md §3.3). Inputs rank
+# last but count: user libraries often type every MCU pin "input", and an LED whose only
+# connection is an IC pin can only be lit by that pin.
+_DRIVE_RANK = {PinType.OUTPUT: 4, PinType.OPEN_COLLECTOR: 4, PinType.OPEN_EMITTER: 4, PinType.TRI_STATE: 4,
+               PinType.BIDIRECTIONAL: 3, PinType.PASSIVE: 2, PinType.UNSPECIFIED: 2, PinType.UNKNOWN: 2,
+               PinType.INPUT: 1}
+_SUPPLY_PIN = re.compile(r"^(V(CC|DD|SS|EE|IN|IO|BAT|DDIO|CCIO|DDA|CCA)?\d*[A-Z]?|GND[A-Z]*\d*|AGND|DGND|PGND|"
+                         r"VREF|EP|PAD|NC)$", re.I)
+_REGULATOR_WORDS = re.compile(r"constant[ -]current|current[ -]regulat|current[ -]limiting diode|\bCCR\b", re.I)
+_IGNORED_ONE_PIN = re.compile(r"^(TP|MH|H|FID|MK|LOGO)\d", re.I)
+_SWITCH_PINS = {Kind.NPN: ("C", "E", "B"), Kind.PNP: ("E", "C", "B"),
+                Kind.NMOS: ("D", "S", "G"), Kind.PMOS: ("S", "D", "G")}
+
+
+def _pin_by_name(comp: Component, name: str) -> Pin | None:
+    for p in comp.pins:
+        if p.name.upper() == name:
+            return p
+    return None
+
+
+def _two_pins(comp: Component) -> tuple[Pin, Pin] | None:
+    connected = [p for p in comp.pins if p.net is not None]
+    return (connected[0], connected[1]) if len(comp.pins) == 2 and len(connected) == 2 else None
+
+
+def elements_of(comp: Component, config: Config) -> tuple[Element, ...] | None:
+    """The series elements a component contributes; None when it is not a series part."""
+    kind = classify(comp)
+    if kind is Kind.LED:
+        out = []
+        for die in led_dies(comp):
+            a, k = comp.pin(die.anode), comp.pin(die.cathode)
+            if a is None or k is None or a.net is None or k.net is None:
+                continue
+            out.append(Element(comp.ref, ElementKind.LED, a.number, k.number, a.net, k.net, die.name, kind))
+        return tuple(out)
+    if kind in _SWITCH_PINS:
+        roles, assumption = transistor_pins(comp)
+        a, b, c = (comp.pin(roles.get(r, "")) for r in _SWITCH_PINS[kind])
+        if a and b and a.net and b.net:
+            return (Element(comp.ref, ElementKind.SWITCH, a.number, b.number, a.net, b.net, part=kind,
+                            control=c.number if c else "", assumption=assumption),)
+        return None
+    pins = _two_pins(comp)
+    if pins is None:
+        return None
+    p, q = pins
+    text = " ".join((comp.value, comp.part, comp.description))
+    if (config.part_settings(comp.ref, comp.value, comp.lib, comp.part).get("driver", ("",))[0] == "two-terminal"
+            or (comp.field("driver") or "").strip() == "two-terminal" or _REGULATOR_WORDS.search(text)):
+        return (Element(comp.ref, ElementKind.REGULATOR, p.number, q.number, p.net, q.net, part=kind),)
+    if kind is Kind.RESISTOR:
+        return (Element(comp.ref, ElementKind.RESISTOR, p.number, q.number, p.net, q.net, part=kind),)
+    if kind in (Kind.DIODE,):
+        a, k = _pin_by_name(comp, "A"), _pin_by_name(comp, "K")
+        if a and k:
+            return (Element(comp.ref, ElementKind.DIODE, a.number, k.number, a.net, k.net, part=kind),)
+    if kind is Kind.INDUCTOR or re.match(r"^(F|FB|JP)\d", comp.ref, re.I):
+        return (Element(comp.ref, ElementKind.WIRE, p.number, q.number, p.net, q.net, part=kind),)
+    return None
+
+
+def _ignored(comp: Component) -> bool:
+    """Parts that carry no DC current or are not on the board."""
+    if comp.dnp:
+        return True
+    kind = classify(comp)
+    if kind is Kind.CAPACITOR:
+        return True
+    return len(comp.pins) <= 1 and bool(_IGNORED_ONE_PIN.match(comp.ref))
+
+
+@dataclass
+class Topology:
+    """Elements, segments and net roles of one netlist (built once, then read)."""
+
+    graph: NetGraph
+    config: Config
+
+    def __post_init__(self) -> None:
+        self.elements: list[Element] = []
+        self.other_pins: dict[str, list[Pin]] = {}
+        self.ends: dict[str, list[tuple[int, str]]] = {}  # net -> (element index, "a" | "b")
+        for comp in self.graph.netlist.components:
+            if _ignored(comp):
+                continue
+            elems = elements_of(comp, self.config)
+            used = {p for e in elems or () for p in (e.a, e.b)}
+            for e in elems or ():
+                i = len(self.elements)
+                self.elements.append(e)
+                self.ends.setdefault(e.net_a, []).append((i, "a"))
+                self.ends.setdefault(e.net_b, []).append((i, "b"))
+            for pin in comp.pins:
+                if pin.net is not None and pin.number not in used and not pin.no_connect:
+                    self.other_pins.setdefault(pin.net, []).append(pin)
+        self.segments = self._chain()
+        self.segment_of: dict[str, Segment] = {e.id: s for s in self.segments for e in s.elements}
+
+    def internal(self, net: str) -> bool:
+        ends = self.ends.get(net, ())
+        return (len(ends) == 2 and not self.other_pins.get(net) and ends[0][0] != ends[1][0]
+                and rail_params(net, self.config) is None and not is_supply_name(net))
+
+    def _chain(self) -> list[Segment]:
+        seen: set[int] = set()
+        out = []
+        for start in range(len(self.elements)):
+            if start in seen:
+                continue
+            seen.add(start)
+            chain = deque([self.elements[start]])
+            for downward in (True, False):
+                net = chain[-1].net_b if downward else chain[0].net_a
+                while self.internal(net):
+                    nxt = [(i, end) for i, end in self.ends[net] if i not in seen]
+                    if not nxt:
+                        break  # the chain closed on itself
+                    i, end = nxt[0]
+                    seen.add(i)
+                    e = self.elements[i]
+                    if downward:
+                        e = e if end == "a" else e.flipped()  # enter at the top end
+                        chain.append(e)
+                        net = e.net_b
+                    else:
+                        e = e if end == "b" else e.flipped()
+                        chain.appendleft(e)
+                        net = e.net_a
+            out.append(_orient(list(chain)))
+        return out
+
+    def terminal(self, net: str) -> Terminal:
+        """What a segment-end net is to an LED circuit."""
+        rail = rail_params(net, self.config)
+        if rail is not None:
+            return Terminal(net, TerminalKind.GROUND if rail.ground else TerminalKind.RAIL, detail=rail.detail)
+        others = self.other_pins.get(net, [])
+        drivers = []
+        for pin in others:
+            comp = self.graph.component(pin.ref)
+            if comp is None:
+                continue
+            kind = classify(comp)
+            if pin.type is PinType.POWER_OUT:
+                return Terminal(net, TerminalKind.SUPPLY, pin, f"power output {pin.ref}.{pin.name or pin.number}")
+            if kind is Kind.BRIDGE and pin.name in ("+", "-"):
+                if pin.name == "+":
+                    return Terminal(net, TerminalKind.SUPPLY, pin, f"rectifier {pin.ref} + output")
+                return Terminal(net, TerminalKind.GROUND, pin, f"rectifier {pin.ref} - output")
+            if kind in (Kind.IC, Kind.OTHER) and pin.type in _DRIVE_RANK and len(comp.pins) > 3 \
+                    and not _SUPPLY_PIN.match(pin.name or ""):
+                drivers.append(pin)
+        if is_supply_name(net):
+            return Terminal(net, TerminalKind.SUPPLY, detail=f"net name {net!r}")
+        if drivers:
+            pin = max(drivers, key=lambda p: _DRIVE_RANK[p.type])
+            return Terminal(net, TerminalKind.PIN, pin, f"pin {pin.name or pin.number} of {pin.ref}")
+        for pin in others:
+            comp = self.graph.component(pin.ref)
+            if comp is not None and classify(comp) is Kind.CONNECTOR:
+                return Terminal(net, TerminalKind.CONNECTOR, pin, f"connector {pin.ref} pin {pin.number}")
+        if not others and len(self.ends.get(net, ())) >= 3:
+            return Terminal(net, TerminalKind.NODE)
+        return Terminal(net, TerminalKind.OTHER, others[0] if others else None,
+                        f"{len(others)} other pin(s)" if others else "nothing else on the net")
+
+    def segments_at(self, net: str) -> list[Segment]:
+        """Segments with an end on a net (a segment with both ends there appears once)."""
+        return [s for s in self.segments if net in (s.top, s.bottom)]
+
+
+def _orient(chain: list[Element]) -> Segment:
+    """Put a chain top to bottom so its LEDs conduct downward; note polar parts that oppose."""
+    guide = [e for e in chain if e.kind is ElementKind.LED] or [e for e in chain if e.polar]
+    if guide and guide[0].against:
+        chain = [e.flipped() for e in reversed(chain)]
+    opposed = [e.id for e in chain if e.polar and e.against]
+    conflict = ""
+    if opposed:
+        verb = "faces" if len(opposed) == 1 else "face"
+        conflict = f"{', '.join(opposed)} {verb} against the other parts in series with it"
+    return Segment(tuple(chain), chain[0].net_a, chain[-1].net_b, conflict)
