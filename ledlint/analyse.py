@@ -1,0 +1,516 @@
+"""Analysis: each recognised circuit's operating point over tolerance, supply and temperature.
+
+Builds the engine's description of a circuit from the recogniser's topology and the parts'
+parameters, solves its corners (and a Monte Carlo for parallel strings), and derives what the
+rules compare with limits: per-LED current range, resistor dissipation, pin current, supply
+headroom, reverse voltage, electro-thermal loop gain. Knows nothing of rules.
+"""
+
+from __future__ import annotations
+
+import re
+import zlib
+from dataclasses import dataclass, field
+from types import MappingProxyType
+from typing import Mapping
+
+import numpy as np
+
+from ledlint.config import Config
+from ledlint.drive import VCE_SAT, SetCurrent, driver_current, sink_current
+from ledlint.engine import Branch as EBranch
+from ledlint.engine import Circuit as ECircuit
+from ledlint.engine import Corners, LedSpec, ModelError, Range, Solution, corners, forward_voltage, loop_gain, monte_carlo
+from ledlint.graph import NetGraph
+from ledlint.model import Component, Netlist, Pin, PinType
+from ledlint.params import (PIN_RESISTANCE, LedParams, Missing, Param, ResistorParams, led_params, pin_limit,
+                            rail_params, resistor_params)
+from ledlint.parts import Kind, classify
+from ledlint.rails import is_mains_name
+from ledlint.recognise import CircuitKind, LedCircuit, recognise
+from ledlint.topology import Element, ElementKind, Terminal, TerminalKind
+
+# Switch drops: a saturated BJT (VCE_SAT) and a small-signal MOSFET's on-resistance,
+# ≤ 7.5 Ω at V_GS = 5 V (field-facts §9, 2N7002); a silicon diode in series at a few mA.
+R_DS_ON = Range(2.0, 0.0, 7.5)
+V_DIODE = Range(0.7, 0.6, 1.0)
+HIGH_VOLTAGE = 60.0  # V DC: above it the usual safety caution applies (SELV limit, common practice)
+MC_SAMPLES = 2000  # per bank in a check; the benchmark runs 10,000
+
+
+@dataclass(frozen=True)
+class Supply:
+    volts: Range  # source minus return
+    basis: tuple[str, ...]
+
+
+@dataclass(frozen=True)
+class LedResult:
+    id: str
+    params: LedParams
+    current: Range  # A over the corners (nominal, least, most)
+    vf: float  # V at the nominal corner
+    tj_max: float  # °C
+    reverse_v: float = 0.0  # the most reverse voltage it can see, ≥ 0
+
+
+@dataclass(frozen=True)
+class ResistorResult:
+    ref: str
+    params: ResistorParams
+    role: str  # "ballast", "balancing" or "sense"
+    current_max: float
+    power_max: float  # W at its worst corner
+    ambient_max: float
+
+
+@dataclass(frozen=True)
+class PinResult:
+    pin: Pin
+    limit: Param
+    current_max: float
+    sourcing: bool
+
+
+@dataclass(frozen=True)
+class Sharing:
+    """How strings in parallel share: Monte Carlo and the hogging corners."""
+
+    samples: int
+    spread_p99: float  # (max − min)/mean of the per-sample split, 99th percentile
+    spread_max: float
+    worst_led: str
+    worst_current: float  # A, the most any one LED reaches in any sample or corner
+    equal_share: float  # A, total / strings at nominal
+
+
+@dataclass(frozen=True)
+class Analysis:
+    circuit: LedCircuit
+    solved: bool = False
+    missing: tuple[Missing, ...] = ()
+    assumptions: tuple[str, ...] = ()
+    supply: Supply | None = None
+    set_current: SetCurrent | None = None
+    leds: tuple[LedResult, ...] = ()
+    resistors: tuple[ResistorResult, ...] = ()
+    pins: tuple[PinResult, ...] = ()
+    nominal_current: float | None = None  # per LED (a bank: the equal share)
+    headroom_v: float | None = None
+    min_ratio: float | None = None  # least current at the low corner / nominal, worst LED
+    sharing: Sharing | None = None
+    loop_gain: float | None = None
+    unlimited: bool = False
+    ambiguity: str = ""
+
+
+@dataclass(frozen=True)
+class BoardAnalysis:
+    netlist: Netlist
+    circuits: tuple[LedCircuit, ...]
+    analyses: tuple[Analysis, ...]
+    cautions: tuple[str, ...]  # safety: mains or high voltage seen on the board
+    parts: Mapping[str, Component] = field(default_factory=lambda: MappingProxyType({}))
+
+
+def _add(a: Range, b: Range) -> Range:
+    return Range(a.nominal + b.nominal, a.minimum + b.minimum, a.maximum + b.maximum)
+
+
+def _sub(a: Range, b: Range) -> Range:
+    return Range(a.nominal - b.nominal, a.minimum - b.maximum, a.maximum - b.minimum)
+
+
+def ic_supply(comp: Component, config: Config) -> tuple[Range, str] | None:
+    """The positive rail an IC runs from: the I/O supply if named, else its highest known rail."""
+    found = []
+    for p in comp.pins:
+        if p.net is None or not (p.type is PinType.POWER_IN or re.match(r"^(V|AV|DV|IOV)(CC|DD)", p.name, re.I)):
+            continue
+        r = rail_params(p.net, config)
+        if r is not None and not r.ground and r.nominal > 0:
+            io = bool(re.search(r"IO", p.name, re.I))
+            found.append((io, r.nominal, Range(r.nominal, r.minimum, r.maximum), f"{comp.ref} runs from "
+                          f"{p.net} ({r.nominal:g} V, pin {p.name or p.number}; {r.detail})"))
+    if not found:
+        return None
+    best = max(found, key=lambda f: (f[0], f[1]))
+    return best[2], best[3]
+
+
+class _Context:
+    def __init__(self, netlist: Netlist, graph: NetGraph, config: Config) -> None:
+        self.netlist, self.graph, self.config = netlist, graph, config
+        amb_nom = min(max(25.0, config.ambient_min_c), config.ambient_max_c)
+        self.ambient = Range(amb_nom, config.ambient_min_c, config.ambient_max_c)
+
+    def comp(self, ref: str) -> Component:
+        c = self.graph.component(ref)
+        assert c is not None
+        return c
+
+    def end_voltage(self, t: Terminal | None, high: bool, missing: list[Missing],
+                    basis: list[str]) -> tuple[Range, Range] | None:
+        """(voltage, series resistance) of a circuit end; `high` for the source end."""
+        if t is None:
+            return None
+        if t.kind is TerminalKind.GROUND:
+            basis.append(f"{t.net} is ground ({t.detail})")
+            return Range.fixed(0.0), Range.fixed(0.0)
+        if t.kind is TerminalKind.RAIL:
+            r = rail_params(t.net, self.config)
+            assert r is not None
+            basis.append(f"{t.net} {r.minimum:g}-{r.maximum:g} V ({r.detail})")
+            return Range(r.nominal, r.minimum, r.maximum), Range.fixed(0.0)
+        if t.kind is TerminalKind.PIN and t.pin is not None:
+            pr = Range(PIN_RESISTANCE[1], PIN_RESISTANCE[0], PIN_RESISTANCE[2])
+            ic = self.comp(t.pin.ref)
+            if not high:
+                basis.append(f"{t.detail} sinks at 0 V, output resistance {pr.minimum:g}-{pr.maximum:g} Ω assumed")
+                return Range.fixed(0.0), pr
+            sup = ic_supply(ic, self.config)
+            if sup is None:
+                missing.append(Missing("supply voltage", f"{ic.ref} drives {t.net}, and none of its supply pins is "
+                                       "on a rail of known voltage", f"set the voltage of {ic.ref}'s supply net in "
+                                       "ledlint.toml: [rails.\"NET\"] nominal = 3.3"))
+                return None
+            basis.append(f"{t.detail} sources its supply: {sup[1]}; output resistance "
+                         f"{pr.minimum:g}-{pr.maximum:g} Ω assumed")
+            return sup[0], pr
+        if t.kind is TerminalKind.SUPPLY:
+            missing.append(Missing("supply voltage", f"net {t.net} ({t.detail}) has no voltage in its name",
+                                   f"set it in ledlint.toml: [rails.\"{t.net}\"] nominal = 5.0"))
+            return None
+        missing.append(Missing("supply", f"net {t.net} is not a supply", "describe how this LED is powered"))
+        return None
+
+    def supply(self, source: Terminal | None, ret: Terminal | None,
+               missing: list[Missing]) -> tuple[Supply, Range] | None:
+        """Voltage across a circuit (source minus return) and the resistance its ends add."""
+        basis: list[str] = []
+        top = self.end_voltage(source, True, missing, basis)
+        bottom = self.end_voltage(ret, False, missing, basis)
+        if top is None or bottom is None:
+            return None
+        return Supply(_sub(top[0], bottom[0]), tuple(basis)), _add(top[1], bottom[1])
+
+    def led_spec(self, p: LedParams, tj_hint: float | None = None) -> LedSpec:
+        vf = Range(p.vf.value, p.vf_min.value, p.vf_max.value)  # type: ignore[union-attr]
+        return LedSpec(vf=vf, i_test=p.i_test.value, n=p.n, r_s=p.r_s, tc=p.tc.value,
+                       rth=p.rth.value if p.rth else None)
+
+
+def _resistance(params: list[ResistorParams]) -> Range:
+    total = Range.fixed(0.0)
+    for p in params:
+        r = p.resistance.value  # type: ignore[union-attr]
+        total = _add(total, Range.tolerance(r, p.tolerance.value))
+    return total
+
+
+def _path_drops(elements: tuple[Element, ...], assumptions: list[str]) -> tuple[Range, Range]:
+    """Fixed drops (BJT saturation, diodes) and resistance (MOSFET) of non-resistor elements."""
+    v, r = Range.fixed(0.0), Range.fixed(0.0)
+    for e in elements:
+        if e.kind is ElementKind.SWITCH:
+            if e.part in (Kind.NPN, Kind.PNP):
+                v = _add(v, VCE_SAT)
+                assumptions.append(f"{e.ref} saturated: V_CE {VCE_SAT.minimum:g}-{VCE_SAT.maximum:g} V "
+                                   "(small-signal BJT, common practice)")
+            else:
+                r = _add(r, R_DS_ON)
+                assumptions.append(f"{e.ref} on: R_DS(on) up to {R_DS_ON.maximum:g} Ω (small-signal MOSFET)")
+            if e.assumption:
+                assumptions.append(f"{e.ref}: {e.assumption}")
+        elif e.kind is ElementKind.DIODE:
+            v = _add(v, V_DIODE)
+            assumptions.append(f"{e.ref} in series: {V_DIODE.minimum:g}-{V_DIODE.maximum:g} V forward drop")
+    return v, r
+
+
+def _seed(c: LedCircuit) -> int:
+    return zlib.crc32(c.id.encode())
+
+
+class _Analyser:
+    def __init__(self, ctx: _Context) -> None:
+        self.ctx = ctx
+
+    def led_params_of(self, elements: tuple[Element, ...]) -> list[LedParams]:
+        return [led_params(self.ctx.comp(e.ref), self.ctx.config, e.die) for e in elements
+                if e.kind is ElementKind.LED]
+
+    def run(self, c: LedCircuit) -> Analysis:
+        if c.kind in (CircuitKind.STRING, CircuitKind.BANK) and not c.blocked:
+            return self.voltage_driven(c)
+        if c.blocked:
+            return self.blocked(c)
+        if c.kind in (CircuitKind.SINK, CircuitKind.DRIVER):
+            return self.current_driven(c)
+        return Analysis(c)
+
+    # -------------------------------------------------------------- voltage drive
+    def voltage_driven(self, c: LedCircuit) -> Analysis:
+        missing: list[Missing] = []
+        assumptions: list[str] = []
+        branch_leds = [self.led_params_of(b.elements) for b in c.branches]
+        all_leds = [p for ps in branch_leds for p in ps]
+        ambiguity = "; ".join(sorted({f"{p.id}: {p.ambiguity}" for p in all_leds if p.ambiguity}))
+        for p in all_leds:
+            missing += [m for m in (p.vf, p.vf_max, p.vf_min) if isinstance(m, Missing)][:1]
+        common = c.top + c.bottom + (c.branches[0].elements if c.kind is CircuitKind.STRING else ())
+        common_res = [self.resistor(e) for e in common if e.kind is ElementKind.RESISTOR]
+        branch_res = [[self.resistor(e) for e in b.elements if e.kind is ElementKind.RESISTOR]
+                      for b in c.branches] if c.kind is CircuitKind.BANK else [[] for _ in c.branches]
+        missing += [rp.resistance for rp in common_res + [r for rs in branch_res for r in rs]
+                    if isinstance(rp.resistance, Missing)]
+        limited = bool(common_res) or all(branch_res)
+        # Lit alone when each string has its own driver pin; otherwise all together.
+        if c.individually_driven:
+            problems = [(c.source or b.far, c.ret or b.far, [k]) for k, b in enumerate(c.branches)]
+            assumptions.append("each string is switched by its own pin: analysed as if lit alone")
+        else:
+            problems = [(c.source, c.ret, list(range(len(c.branches))))]
+        supplies = [self.ctx.supply(src, ret, missing) for src, ret, _ in problems]
+        pin_end = any(t is not None and t.kind is TerminalKind.PIN for src, ret, _ in problems for t in (src, ret))
+        unlimited = not limited and not pin_end
+        missing = _unique(missing)
+        first_supply = next((s[0] for s in supplies if s), None)
+        if missing or any(s is None for s in supplies):
+            return Analysis(c, missing=tuple(missing), supply=first_supply, unlimited=unlimited, ambiguity=ambiguity)
+        v_sw, r_sw = _path_drops(c.top + c.bottom + tuple(e for b in c.branches for e in b.elements), assumptions)
+        rc = _resistance(common_res)
+        solved = []
+        for (src, ret, ks), sup in zip(problems, supplies):
+            supply, r_pin = sup  # type: ignore[misc]
+            if r_pin.maximum > 0:
+                assumptions.append(f"controller pin output resistance {r_pin.minimum:g}-{r_pin.maximum:g} Ω "
+                                   "(typical GPIO at 20 mA, field-facts §9, common practice)")
+            solved.append(self.solve_voltage(c, src, ret, supply.volts, rc, _add(r_pin, r_sw), v_sw, common_res,
+                                             [branch_leds[k] for k in ks], [branch_res[k] for k in ks]))
+        results = tuple(r for s in solved for r in s.leds)
+        resistors = tuple(_worst_per_ref([r for s in solved for r in s.resistors]))
+        pins = tuple(p for s in solved for p in s.pins)
+        gains = [s.loop_gain for s in solved if s.loop_gain is not None]
+        return Analysis(c, True, (), tuple(dict.fromkeys(assumptions)), first_supply, None, results, resistors,
+                        pins, max(s.nominal for s in solved), min(s.headroom for s in solved),
+                        min(s.min_ratio for s in solved), solved[0].sharing if len(solved) == 1 else None,
+                        max(gains) if gains else None, unlimited, ambiguity)
+
+    def resistor(self, e: Element) -> ResistorParams:
+        return resistor_params(self.ctx.comp(e.ref), self.ctx.config)
+
+    def solve_voltage(self, c: LedCircuit, src: Terminal | None, ret: Terminal | None, volts: Range, rc: Range,
+                      r_extra: Range, v_sw: Range, common_res: list[ResistorParams],
+                      branch_leds: list[list[LedParams]], branch_res: list[list[ResistorParams]]) -> _Solved:
+        ebranches = tuple(EBranch(tuple(self.ctx.led_spec(p) for p in ps), _resistance(rs))
+                          for ps, rs in zip(branch_leds, branch_res))
+        ec = ECircuit(ebranches, supply=volts, r_series=rc, r_switch=r_extra, v_switch=v_sw, ambient=self.ctx.ambient)
+        cor = corners(ec)
+        sol = cor.solution
+        flat = [p for ps in branch_leds for p in ps]
+        results = _led_results(cor, flat)
+        amb = self.ctx.ambient.maximum
+        i_common = np.abs(sol.common_current)
+        resistors = []
+        for rp in common_res:  # in the corners every common resistor sits at the same tolerance end
+            share = rp.resistance.value / rc.nominal if rc.nominal > 0 else 0.0  # type: ignore[union-attr]
+            power = float((sol.common_current ** 2 * cor.cases.r_series * share).max())
+            resistors.append(ResistorResult(rp.ref, rp, "ballast", float(i_common.max()), power, amb))
+        resistors += _balancing(sol, branch_res, amb)
+        pins = []
+        for t, sourcing in ((src, True), (ret, False)):
+            if t is not None and t.kind is TerminalKind.PIN and t.pin is not None:
+                ic = self.ctx.comp(t.pin.ref)
+                pins.append(PinResult(t.pin, pin_limit(ic, self.ctx.config), float(i_common.max()), sourcing))
+        # Headroom: what is left for the ballast at the low corner if the LEDs ran at nominal current.
+        nominal = cor.nominal
+        worst_string = max(sum(_vf_max_at(p, float(nominal.branch_current[k]), self.ctx.ambient.minimum) for p in ps)
+                           for k, ps in enumerate(branch_leds))
+        headroom = volts.minimum - v_sw.maximum - worst_string
+        ratio = float((cor.min_current.led_current / np.maximum(nominal.led_current, 1e-15)).min())
+        try:
+            gain = loop_gain(ec)
+        except ModelError:
+            gain = None
+        sharing = None
+        per_led = float(nominal.led_current.mean())
+        if len(ebranches) >= 2:
+            sharing = _sharing(ec, cor, flat, _seed(c), float(nominal.common_current) / len(ebranches))
+            per_led = sharing.equal_share
+        return _Solved(tuple(results), tuple(resistors), tuple(pins), headroom, ratio, gain, sharing, per_led)
+
+    # -------------------------------------------------------------- blocked
+    def blocked(self, c: LedCircuit) -> Analysis:
+        missing: list[Missing] = []
+        sup = self.ctx.supply(c.source, c.ret, missing)
+        leds = self.led_params_of(c.branches[0].elements)
+        opposed = {e.id for e in c.branches[0].elements if e.kind is ElementKind.LED and e.against}
+        if sup is None:
+            return Analysis(c, missing=tuple(missing))
+        worst = max(abs(sup[0].volts.maximum), abs(sup[0].volts.minimum))
+        results = tuple(LedResult(p.id, p, Range.fixed(0.0), 0.0, self.ctx.ambient.maximum,
+                                  worst if (p.id in opposed) == (sup[0].volts.maximum >= 0) else 0.0) for p in leds)
+        return Analysis(c, True, (), ("the whole supply may fall on one reversed LED (leakage decides)",), sup[0],
+                        leds=results)
+
+    # -------------------------------------------------------------- current drive
+    def current_driven(self, c: LedCircuit) -> Analysis:
+        rail = None
+        if c.sink is not None:
+            ref = c.sink.reference
+            if ref.kind == "pin" and ref.pin is not None:
+                got = ic_supply(self.ctx.comp(ref.pin.ref), self.ctx.config)
+                rail = got[0] if got else None
+            elif ref.rail:
+                r = rail_params(ref.rail, self.ctx.config)
+                rail = Range(r.nominal, r.minimum, r.maximum) if r else None
+            setc, missing, notes = sink_current(c.sink, self.ctx.graph, self.ctx.config, self.ctx.ambient, rail)
+        else:
+            assert c.driver is not None
+            setc, missing, notes = driver_current(c.driver, self.ctx.graph, self.ctx.config)
+        branch_leds = [self.led_params_of(b.elements) for b in c.branches]
+        flat = [p for ps in branch_leds for p in ps]
+        ambiguity = "; ".join(sorted({f"{p.id}: {p.ambiguity}" for p in flat if p.ambiguity}))
+        unknown = [m for p in flat for m in (p.vf,) if isinstance(m, Missing)][:1]
+        if unknown:
+            # The split between strings depends on the Vf spread more than on Vf itself: with the
+            # LED type unknown, 2.0 V ±10 % per LED stands in, and the findings say so.
+            notes.append("LED type unknown: each LED taken as 2.0 V ±10 % at 20 mA for the current split")
+        sup_missing: list[Missing] = []
+        sup = self.ctx.supply(c.source, c.ret, sup_missing)
+        missing = _unique(missing + unknown + sup_missing)
+        if setc is None:
+            return Analysis(c, missing=tuple(missing), assumptions=tuple(notes), supply=sup[0] if sup else None,
+                            ambiguity=ambiguity)
+        res = [[self.resistor(e) for e in b.elements if e.kind is ElementKind.RESISTOR] for b in c.branches]
+        if any(isinstance(r.resistance, Missing) for rs in res for r in rs):
+            missing += [r.resistance for rs in res for r in rs if isinstance(r.resistance, Missing)]
+            return Analysis(c, missing=tuple(missing), assumptions=tuple(notes), set_current=setc)
+        specs = tuple(EBranch(tuple(self._spec_or_stand_in(p) for p in ps), _resistance(rs))
+                      for ps, rs in zip(branch_leds, res))
+        ec = ECircuit(specs, drive_current=setc.current, ambient=self.ctx.ambient)
+        cor = corners(ec)
+        amb = self.ctx.ambient.maximum
+        resistors = []
+        for ref, r in setc.sense:
+            i = setc.current.maximum
+            resistors.append(ResistorResult(ref, resistor_params(self.ctx.comp(ref), self.ctx.config), "sense", i,
+                                            i * i * r.maximum, amb))
+        resistors += _balancing(cor.solution, res, amb)
+        k = len(c.branches)
+        sharing = _sharing(ec, cor, flat, _seed(c), setc.current.nominal / k) if k >= 2 else None
+        # Headroom: the least input minus the highest string voltage at the set current, the sense
+        # voltage and the regulator's dropout.
+        headroom = None
+        if sup is not None and not unknown:
+            worst = max(sum(_vf_max_at(p, setc.current.maximum / k, self.ctx.ambient.minimum) for p in ps)
+                        for ps in branch_leds)
+            headroom = sup[0].volts.minimum - worst - setc.sense_voltage.maximum - setc.dropout.maximum
+        return Analysis(c, True, tuple(missing), tuple(dict.fromkeys(notes)), sup[0] if sup else None, setc,
+                        tuple(_led_results(cor, flat)), tuple(resistors), (), setc.current.nominal / k, headroom,
+                        None, sharing, None, False, ambiguity)
+
+    def _spec_or_stand_in(self, p: LedParams) -> LedSpec:
+        if p.complete:
+            return self.ctx.led_spec(p)
+        return LedSpec(Range.tolerance(2.0, 0.10), 0.020, 2.0, p.r_s, -0.002)
+
+
+@dataclass(frozen=True)
+class _Solved:
+    leds: tuple[LedResult, ...]
+    resistors: tuple[ResistorResult, ...]
+    pins: tuple[PinResult, ...]
+    headroom: float
+    min_ratio: float
+    loop_gain: float | None
+    sharing: Sharing | None
+    nominal: float
+
+
+def _led_results(cor: Corners, flat: list[LedParams]) -> list[LedResult]:
+    sol, nominal = cor.solution, cor.nominal
+    out = []
+    for j, p in enumerate(flat):
+        i_nom = float(nominal.led_current[j])
+        out.append(LedResult(p.id, p, Range(i_nom, min(float(cor.led_current_min[j]), i_nom),
+                                            max(float(cor.led_current_max[j]), i_nom)),
+                             float(nominal.led_voltage[j]), float(sol.tj[:, j].max()),
+                             max(0.0, -float(sol.led_voltage[:, j].min()))))
+    return out
+
+
+def _balancing(sol: Solution, branch_res: list[list[ResistorParams]], ambient: float) -> list[ResistorResult]:
+    out = []
+    for k, rs in enumerate(branch_res):
+        total = sum(x.resistance.value for x in rs if isinstance(x.resistance, Param))
+        for rp in rs:
+            if isinstance(rp.resistance, Param) and total > 0:
+                out.append(ResistorResult(rp.ref, rp, "balancing", float(sol.branch_current[:, k].max()),
+                                          float(sol.branch_resistor_power[:, k].max()) * rp.resistance.value / total,
+                                          ambient))
+    return out
+
+
+def _sharing(ec: ECircuit, cor: Corners, flat: list[LedParams], seed: int, equal_share: float) -> Sharing:
+    mc = monte_carlo(ec, samples=MC_SAMPLES, seed=seed)
+    peak = np.maximum(mc.current.maximum, cor.led_current_max)
+    worst = int(np.argmax(peak))
+    return Sharing(MC_SAMPLES, float(mc.spread_summary.p99), float(mc.spread_summary.maximum), flat[worst].id,
+                   float(peak[worst]), equal_share)
+
+
+def _vf_max_at(p: LedParams, current: float, tj: float) -> float:
+    spec = LedSpec(Range.fixed(p.vf_max.value), p.i_test.value, p.n, p.r_s, p.tc.value)  # type: ignore[union-attr]
+    return float(forward_voltage(spec, max(current, 1e-6), tj))
+
+
+def _worst_per_ref(rs: list[ResistorResult]) -> list[ResistorResult]:
+    best: dict[str, ResistorResult] = {}
+    for r in rs:
+        if r.ref not in best or r.power_max > best[r.ref].power_max:
+            best[r.ref] = r
+    return list(best.values())
+
+
+def _unique(items: list[Missing]) -> list[Missing]:
+    seen, out = set(), []
+    for m in items:
+        key = (m.name, m.reason)
+        if key not in seen:
+            seen.add(key)
+            out.append(m)
+    return out
+
+
+def cautions(netlist: Netlist, circuits: tuple[LedCircuit, ...], analyses: tuple[Analysis, ...],
+             config: Config) -> tuple[str, ...]:
+    """Where the board shows mains or more than 60 V DC (the usual safety caution)."""
+    out = []
+    mains = sorted({n.name for n in netlist.nets if is_mains_name(n.name)})
+    if mains:
+        out.append(f"mains nets on the board: {', '.join(mains[:5])}")
+    bridges = sorted({c.source.pin.ref for c in circuits if c.source and c.source.pin
+                      and classify(netlist.component(c.source.pin.ref) or Component("", "")) is Kind.BRIDGE})
+    if bridges:
+        out.append(f"LEDs fed by rectifier {', '.join(bridges)} (an AC input, possibly mains)")
+    high = sorted({a.circuit.id for a in analyses if a.supply and max(abs(a.supply.volts.maximum),
+                                                                       abs(a.supply.volts.minimum)) > HIGH_VOLTAGE})
+    if high:
+        out.append(f"LED circuits above {HIGH_VOLTAGE:g} V DC: {', '.join(high)}")
+    for n in netlist.nets:
+        r = rail_params(n.name, config)
+        if r and not r.ground and max(abs(r.maximum), abs(r.minimum)) > HIGH_VOLTAGE:
+            out.append(f"net {n.name} at {r.nominal:g} V")
+    return tuple(dict.fromkeys(out))
+
+
+def analyse(netlist: Netlist, config: Config) -> BoardAnalysis:
+    """Recognise and analyse every LED circuit of a netlist."""
+    graph = NetGraph(netlist)
+    circuits = recognise(graph, config)
+    analyser = _Analyser(_Context(netlist, graph, config))
+    analyses = tuple(analyser.run(c) for c in circuits)
+    return BoardAnalysis(netlist, circuits, analyses, cautions(netlist, circuits, analyses, config),
+                         MappingProxyType({c.ref: c for c in netlist.components}))

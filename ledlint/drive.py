@@ -1,0 +1,211 @@
+"""What sets the current of a current sink or a constant-current driver, over tolerance.
+
+Transistor sink: I = (V_ref − V_BE) / R_E, or V_BE / R_E when a second transistor clamps the
+base (the two-transistor limiter). Driver IC: I = V_ref / R_sense, or a fixed current for a
+two-terminal regulator, as the user describes the part (config or fields).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from ledlint.config import Config
+from ledlint.engine import Range
+from ledlint.graph import NetGraph
+from ledlint.params import Missing, Origin, Param, resistor_params
+from ledlint.recognise import DriverIC, Reference, Sink
+from ledlint.units import parse_current, parse_tolerance, parse_voltage
+
+# Silicon base-emitter voltage at 1-100 mA: 0.65 V nominal, 0.55-0.75 V over parts and current,
+# falling 2 mV/K (common practice).
+VBE = Range(0.65, 0.55, 0.75)
+VBE_TC = -0.002
+# A small-signal MOSFET's gate-source voltage when sinking tens of mA: above its 1-2.5 V
+# threshold (field-facts §9: 2N7002 V_GS(th) 1-2.5 V) by an overdrive that is not known.
+VGS = Range(2.0, 1.0, 3.0)
+# A silicon diode's forward drop at a few mA, as a base reference (common practice).
+VDIODE = Range(0.65, 0.55, 0.75)
+ZENER_TOLERANCE = 0.05  # the common ±5 % zener grade (from memory)
+VCE_SAT = Range(0.1, 0.05, 0.3)  # field-facts §9: 2N3904 ≤ 0.2 V at 10 mA, ≤ 0.3 V at 50 mA
+DRIVER_KINDS = ("linear", "buck", "boost", "two-terminal")
+
+
+@dataclass(frozen=True)
+class SetCurrent:
+    """A driver's or sink's output current over tolerance, and what it rests on."""
+
+    current: Range  # A
+    basis: str
+    sense: tuple[tuple[str, Range], ...] = ()  # (resistor ref, its resistance)
+    sense_voltage: Range = Range.fixed(0.0)  # V across the sense resistor
+    dropout: Range = Range.fixed(0.0)  # V the regulator needs across itself
+    kind: str = "linear"  # linear, buck, boost, two-terminal, or sink
+    limits: tuple[tuple[str, float], ...] = ()  # vin_min, vin_max, vout_max, current_max as given
+
+
+def _resistance(graph: NetGraph, config: Config, refs: tuple[str, ...]) -> tuple[Range, list[Missing]] | None:
+    """Series sum of resistors with their tolerances."""
+    total = Range.fixed(0.0)
+    missing = []
+    for ref in refs:
+        comp = graph.component(ref)
+        if comp is None:
+            continue
+        p = resistor_params(comp, config)
+        if isinstance(p.resistance, Missing):
+            missing.append(p.resistance)
+            continue
+        r = Range.tolerance(p.resistance.value, p.tolerance.value)
+        total = Range(total.nominal + r.nominal, total.minimum + r.minimum, total.maximum + r.maximum)
+    return total, missing
+
+
+def sink_current(sink: Sink, graph: NetGraph, config: Config, ambient: Range,
+                 rail: Range | None) -> tuple[SetCurrent | None, list[Missing], list[str]]:
+    """The current a transistor sink sets, or what is missing to know it."""
+    missing: list[Missing] = []
+    notes: list[str] = []
+    re_range, miss = _resistance(graph, config, tuple(e.ref for e in sink.sense))
+    missing += miss
+    mos = sink.transistor.part.value == "nmos"
+    # V_BE falls as it warms: the most current at the hottest ambient.
+    vbe = Range(VBE.nominal + VBE_TC * (ambient.nominal - 25), VBE.minimum + VBE_TC * (ambient.maximum - 25),
+                VBE.maximum + VBE_TC * (ambient.minimum - 25))
+    drop = VGS if mos else vbe
+    ref = sink.reference
+    if sink.transistor.assumption:
+        notes.append(f"{sink.transistor.ref}: {sink.transistor.assumption}")
+    if ref.kind == "vbe":
+        v_emitter = vbe
+        basis = f"V_BE of {ref.refs[0]} ({vbe.nominal:.2f} V, {vbe.minimum:.2f}-{vbe.maximum:.2f} V) across the emitter resistor"
+        notes.append(f"V_BE {VBE.minimum:.2f}-{VBE.maximum:.2f} V, −2 mV/K (silicon, common practice)")
+    else:
+        v_base = _reference_voltage(ref, graph, config, rail, missing, notes)
+        if v_base is None:
+            return None, missing, notes
+        v_emitter = Range(v_base.nominal - drop.nominal, max(v_base.minimum - drop.maximum, 0.0),
+                          max(v_base.maximum - drop.minimum, 0.0))
+        what = "V_GS" if mos else "V_BE"
+        basis = f"{ref.detail} at {v_base.nominal:.2f} V, less {what} {drop.nominal:.2f} V"
+    if missing:
+        return None, missing, notes
+    if re_range.minimum <= 0:
+        missing.append(Missing("emitter resistance", f"{sink.transistor.ref} has no emitter resistance",
+                               "a current sink needs a resistor from emitter to ground"))
+        return None, missing, notes
+    current = Range(v_emitter.nominal / re_range.nominal, v_emitter.minimum / re_range.maximum,
+                    v_emitter.maximum / re_range.minimum)
+    sense = tuple((e.ref, re_range) for e in sink.sense[:1])
+    return (SetCurrent(current, basis + f", over {' + '.join(e.ref for e in sink.sense)} = "
+                       f"{re_range.nominal:g} Ω", sense, v_emitter, VCE_SAT, "sink"), missing, notes)
+
+
+def _reference_voltage(ref: Reference, graph: NetGraph, config: Config, rail: Range | None, missing: list[Missing],
+                       notes: list[str]) -> Range | None:
+    if ref.kind == "zener":
+        comp = graph.component(ref.refs[0])
+        text = (comp.field("Vz") if comp else None) or (comp.value if comp else "")
+        q = parse_voltage(text or "")
+        if q is None:
+            missing.append(Missing("Vz", f"{ref.refs[0]}: zener voltage not in its value {text!r}",
+                                   f"add a field Vz (e.g. Vz = 5.1V) to {ref.refs[0]}"))
+            return None
+        notes.append(f"{ref.refs[0]} zener {q.value:g} V ±5 %")
+        return Range.tolerance(q.value, ZENER_TOLERANCE)
+    if ref.kind == "diodes":
+        n = len(ref.refs)
+        notes.append(f"{n} diode drop(s) of {VDIODE.minimum:.2f}-{VDIODE.maximum:.2f} V")
+        return Range(n * VDIODE.nominal, n * VDIODE.minimum, n * VDIODE.maximum)
+    if ref.kind in ("divider", "pin") and rail is not None:
+        if ref.kind == "pin":
+            notes.append("the base or gate sits at the driving pin's high level (base current neglected)")
+            return rail
+        top_bottom = _divider(ref, graph, config)
+        if top_bottom is None:
+            missing.append(Missing("divider", "the base divider's resistors are not both known", "give both values"))
+            return None
+        top, bottom = top_bottom
+        return Range(rail.nominal * bottom.nominal / (top.nominal + bottom.nominal),
+                     rail.minimum * bottom.minimum / (top.maximum + bottom.minimum),
+                     rail.maximum * bottom.maximum / (top.minimum + bottom.maximum))
+    missing.append(Missing("reference", f"what holds the base: {ref.detail or 'unknown'}",
+                           "the tool recognises a zener, diodes, a divider or a controller pin"))
+    return None
+
+
+def _divider(ref: Reference, graph: NetGraph, config: Config) -> tuple[Range, Range] | None:
+    values = []
+    for r in ref.refs[:2]:
+        got = _resistance(graph, config, (r,))
+        if got is None or got[1]:
+            return None
+        values.append(got[0])
+    if len(values) != 2:
+        return None
+    # The resistor that reaches the rail is the top one.
+    first = graph.component(ref.refs[0])
+    top_first = first is not None and any(p.net == ref.rail for p in first.pins)
+    return (values[0], values[1]) if top_first else (values[1], values[0])
+
+
+def _setting(driver: DriverIC, key: str) -> tuple[str, str] | None:
+    for k, text, where in driver.settings:
+        if k == key:
+            return text, where
+    return None
+
+
+def driver_current(driver: DriverIC, graph: NetGraph,
+                   config: Config) -> tuple[SetCurrent | None, list[Missing], list[str]]:
+    """A described driver's set-point; what to describe when it is not."""
+    notes: list[str] = []
+    keys = "driver, vref (and vref_tolerance) or current, current_max, dropout, vin_min, vin_max, vout_max"
+    kind_text = _setting(driver, "driver")
+    if kind_text is None:
+        return None, [Missing("driver description", f"{driver.ref} looks like a constant-current driver but is "
+                              "not described", f"describe {driver.ref} in ledlint.toml [refs.{driver.ref!r}] or in "
+                              f"fields: {keys}")], notes
+    kind = kind_text[0].strip().lower()
+    if kind not in DRIVER_KINDS:
+        return None, [Missing("driver", f"{kind_text[1]}: {kind!r} is not a driver kind",
+                              f"use one of {', '.join(DRIVER_KINDS)}")], notes
+
+    def number(key: str, parse) -> Param | None:
+        found = _setting(driver, key)
+        if found is None:
+            return None
+        q = parse(found[0])
+        return Param(q.value, Origin.FIELD if found[1].startswith("field") else Origin.CONFIG, found[1]) if q else None
+
+    limits = tuple((k, p.value) for k in ("vin_min", "vin_max", "vout_max") if (p := number(k, parse_voltage)))
+    cmax = number("current_max", parse_current)
+    if cmax:
+        limits += (("current_max", cmax.value),)
+    dropout = number("dropout", parse_voltage)
+    drop = Range.fixed(dropout.value) if dropout else Range.fixed(0.0)
+    fixed = number("current", parse_current)
+    if fixed is not None:
+        tol = number("current_tolerance", parse_tolerance)
+        rel = tol.value if tol else 0.0
+        if tol is None:
+            notes.append(f"{driver.ref}: no current_tolerance given; taken as exact")
+        return SetCurrent(Range.tolerance(fixed.value, rel), f"{driver.ref} fixed current {fixed.value * 1000:g} mA",
+                          dropout=drop, kind=kind, limits=limits), [], notes
+    vref = number("vref", parse_voltage)
+    if vref is None:
+        return None, [Missing("vref", f"{driver.ref}: no vref (or current) given",
+                              f"add vref (e.g. vref = \"200mV\") for {driver.ref}")], notes
+    tol = number("vref_tolerance", parse_tolerance)
+    if tol is None:
+        notes.append(f"{driver.ref}: no vref_tolerance given; taken as exact")
+    v = Range.tolerance(vref.value, tol.value if tol else 0.0)
+    if not driver.sense:
+        return None, [Missing("sense resistor", f"{driver.ref}: no resistor found on its sense pin",
+                              "name the sense pins: sense_pins = \"CS\"")], notes
+    got = _resistance(graph, config, driver.sense[:1])
+    if got is None or got[1]:
+        return None, (got[1] if got else []), notes
+    rs = got[0]
+    current = Range(v.nominal / rs.nominal, v.minimum / rs.maximum, v.maximum / rs.minimum)
+    return SetCurrent(current, f"{driver.ref} V_ref {v.nominal * 1000:g} mV over {driver.sense[0]} = {rs.nominal:g} Ω",
+                      ((driver.sense[0], rs),), v, drop, kind, limits), [], notes
