@@ -1,0 +1,100 @@
+"""Findings: one frozen record per problem, its message built from a template and typed values."""
+
+from __future__ import annotations
+
+import hashlib
+import math
+import string
+from dataclasses import dataclass, field
+from enum import Enum
+
+
+class Severity(Enum):
+    ERROR = "error"
+    WARNING = "warning"
+    INFO = "info"
+
+    @property
+    def rank(self) -> int:
+        return {"error": 3, "warning": 2, "info": 1}[self.value]
+
+    def lowered(self) -> Severity:
+        """One step down: what a finding becomes when its limit is only a built-in default."""
+        return {Severity.ERROR: Severity.WARNING, Severity.WARNING: Severity.INFO}.get(self, Severity.INFO)
+
+
+@dataclass(frozen=True)
+class Value:
+    """A computed quantity or limit: value in SI units and its unit symbol ("A", "W", "V", "Ω", "", "%")."""
+
+    name: str
+    value: float
+    unit: str
+    limit: float | None = None  # the limit this value is compared with, same unit
+    relation: str = ""  # how value stands to limit: ">", "<", ">=", "<="
+
+    def text(self) -> str:
+        return quantity(self.value, self.unit)
+
+
+_PREFIXES = ((1e9, "G"), (1e6, "M"), (1e3, "k"), (1.0, ""), (1e-3, "m"), (1e-6, "µ"), (1e-9, "n"))
+
+
+def quantity(value: float, unit: str) -> str:
+    """A value with an engineering prefix and three significant figures: 25.8 mA, 4.7 kΩ, 0.42 W."""
+    if unit == "%":
+        return f"{value * 100:.3g} %"
+    if unit in ("°C", "K/W", ""):
+        return f"{value:.3g}{' ' + unit if unit else ''}"
+    if value == 0 or not math.isfinite(value):
+        return f"{value:g} {unit}"
+    mag = abs(value)
+    for scale, prefix in _PREFIXES:
+        if mag >= scale * 0.9995:
+            return f"{value / scale:.3g} {prefix}{unit}"
+    return f"{value:.3g} {unit}"
+
+
+class _Formatter(string.Formatter):
+    def format_field(self, value: object, format_spec: str) -> str:
+        if isinstance(value, Value):
+            return value.text()
+        return super().format_field(value, format_spec)
+
+
+def render(template: str, **args: object) -> str:
+    """Fill a message template; Value arguments print with their units."""
+    return _Formatter().format(template, **args)
+
+
+def fingerprint(rule: str, refs: tuple[str, ...], nets: tuple[str, ...]) -> str:
+    """Stable across re-exports: rule, sorted references and sorted nets, never line numbers."""
+    key = "\x1f".join([rule, ",".join(sorted(refs)), ",".join(sorted(nets))])
+    return hashlib.sha256(key.encode()).hexdigest()[:16]
+
+
+@dataclass(frozen=True)
+class Finding:
+    rule: str
+    severity: Severity
+    message: str
+    file: str
+    line: int
+    refs: tuple[str, ...]
+    nets: tuple[str, ...]
+    sheet: str = "/"
+    values: tuple[Value, ...] = ()
+    assumed: tuple[str, ...] = ()  # what the numbers rest on that the netlist did not say
+    hint: str = ""
+    circuit: str = ""  # the circuit's id
+    template: str = ""
+    fingerprint: str = field(default="")
+    waived: str = ""  # the reason, when a waiver silences it
+
+    def __post_init__(self) -> None:
+        if not self.fingerprint:
+            object.__setattr__(self, "fingerprint", fingerprint(self.rule, self.refs, self.nets))
+
+    @property
+    def sort_key(self) -> tuple:
+        return (-self.severity.rank, self.file, self.line, self.rule, self.refs)

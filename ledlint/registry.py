@@ -1,0 +1,158 @@
+"""Rule registry: the built-in rules (ledlint.rules) plus the `ledlint.rules` entry-point group.
+
+A rule is data: an id (kebab-case), a summary, a default severity, options with defaults and
+units, the check function, and its documentation (its module's docstring). Duplicate or
+malformed ids fail loudly at load time.
+"""
+
+from __future__ import annotations
+
+import importlib
+import pkgutil
+import re
+from dataclasses import dataclass, field, replace
+from importlib.metadata import entry_points
+from types import MappingProxyType
+from typing import Any, Callable, Iterator, Mapping
+
+from ledlint.analyse import Analysis, BoardAnalysis
+from ledlint.config import SEVERITIES, Config, suggest
+from ledlint.errors import ConfigError, LedlintError
+from ledlint.findings import Finding, Severity, Value, render
+
+_ID = re.compile(r"^[a-z][a-z0-9]*(-[a-z0-9]+)*$")
+ENTRY_POINT_GROUP = "ledlint.rules"
+DOC_SECTIONS = ("What it flags", "Why it matters", "Example", "Fix", "Formula", "Source")
+
+
+@dataclass(frozen=True)
+class Option:
+    name: str
+    default: float
+    unit: str
+    doc: str
+
+
+@dataclass(frozen=True)
+class Rule:
+    id: str
+    summary: str
+    severity: Severity
+    check: Callable[[RuleContext], Iterator[Finding]]
+    options: tuple[Option, ...] = ()
+    doc: str = ""
+
+    def option_defaults(self) -> dict[str, float]:
+        return {o.name: o.default for o in self.options}
+
+
+@dataclass(frozen=True)
+class RuleContext:
+    """What a rule sees: one board's analyses and its own options. Read-only."""
+
+    rule: Rule
+    board: BoardAnalysis
+    path: str  # the netlist as the user named it
+    options: Mapping[str, float] = field(default_factory=lambda: MappingProxyType({}))
+
+    @property
+    def analyses(self) -> tuple[Analysis, ...]:
+        return self.board.analyses
+
+    def finding(self, analysis: Analysis, severity: Severity, template: str, *, refs: tuple[str, ...] | None = None,
+                nets: tuple[str, ...] | None = None, values: tuple[Value, ...] = (), assumed: tuple[str, ...] = (),
+                hint: str = "", line: int | None = None, **args: object) -> Finding:
+        c = analysis.circuit
+        named = {v.name: v for v in values}
+        return Finding(rule=self.rule.id, severity=severity, message=render(template, **named, **args), file=self.path,
+                       line=c.line if line is None else line, refs=refs if refs is not None else c.refs,
+                       nets=nets if nets is not None else c.nets, sheet=c.sheet, values=values,
+                       assumed=tuple(dict.fromkeys(assumed)), hint=hint, circuit=c.id, template=template)
+
+
+def _validate(rule: Rule, where: str) -> None:
+    if not isinstance(rule, Rule):
+        raise LedlintError(f"{where}: RULE is not a ledlint Rule")
+    if not _ID.match(rule.id):
+        raise LedlintError(f"{where}: rule id {rule.id!r} is not kebab-case")
+    if not rule.summary or not rule.doc:
+        raise LedlintError(f"{where}: rule {rule.id} needs a summary and documentation")
+
+
+def load_rules(include_plugins: bool = True) -> tuple[Rule, ...]:
+    """Every rule, built-in first, in id order within each group."""
+    import ledlint.rules as builtin
+
+    found: dict[str, tuple[Rule, str]] = {}
+
+    def add(rule: Rule, where: str) -> None:
+        _validate(rule, where)
+        if rule.id in found:
+            raise LedlintError(f"{where}: rule id {rule.id!r} is already defined by {found[rule.id][1]}")
+        found[rule.id] = (rule, where)
+
+    for mod in sorted(pkgutil.iter_modules(builtin.__path__), key=lambda m: m.name):
+        module = importlib.import_module(f"{builtin.__name__}.{mod.name}")
+        if hasattr(module, "RULE"):
+            add(module.RULE, module.__name__)
+    if include_plugins:
+        for ep in sorted(entry_points(group=ENTRY_POINT_GROUP), key=lambda e: e.name):
+            add(ep.load(), f"entry point {ep.name} ({ep.value})")
+    return tuple(r for r, _ in found.values())
+
+
+@dataclass(frozen=True)
+class RuleSettings:
+    """Per rule: the options to run with and the severity override ('' for none, 'off' to disable)."""
+
+    options: Mapping[str, Mapping[str, float]]
+    severity: Mapping[str, str]
+
+
+def settings(rules: tuple[Rule, ...], config: Config) -> RuleSettings:
+    """Check [rules.<id>] tables against the rules' declared options."""
+    by_id = {r.id: r for r in rules}
+    options: dict[str, Mapping[str, float]] = {}
+    severity: dict[str, str] = {}
+    for rid, table in config.rules.items():
+        if rid not in by_id:
+            raise ConfigError(f"[rules.{rid}]: no rule {rid!r}{suggest(rid, sorted(by_id))}", config.path)
+        rule = by_id[rid]
+        valid = [o.name for o in rule.options] + ["severity"]
+        for key, value in table.items():
+            if key not in valid:
+                raise ConfigError(f"[rules.{rid}]: unknown option {key!r}{suggest(key, valid)}", config.path)
+            if key == "severity":
+                if value not in SEVERITIES:
+                    raise ConfigError(f"[rules.{rid}] severity: {value!r}{suggest(str(value), SEVERITIES)}",
+                                      config.path)
+                severity[rid] = value
+            elif isinstance(value, bool) or not isinstance(value, (int, float)):
+                raise ConfigError(f"[rules.{rid}] {key}: expected a number, not {value!r}", config.path)
+    for rule in rules:
+        merged = rule.option_defaults()
+        merged.update({k: float(v) for k, v in config.rules.get(rule.id, {}).items() if k != "severity"})
+        options[rule.id] = MappingProxyType(merged)
+    return RuleSettings(MappingProxyType(options), MappingProxyType(severity))
+
+
+def run_rules(rules: tuple[Rule, ...], board: BoardAnalysis, path: str, rule_settings: RuleSettings) -> list[Finding]:
+    """Every finding of every enabled rule on one board, severity overrides applied."""
+    out: list[Finding] = []
+    for rule in rules:
+        override = rule_settings.severity.get(rule.id, "")
+        if override == "off":
+            continue
+        ctx = RuleContext(rule, board, path, rule_settings.options.get(rule.id, MappingProxyType({})))
+        for f in rule.check(ctx):
+            if override:
+                f = replace(f, severity=Severity(override))
+            out.append(f)
+    return sorted(out, key=lambda f: f.sort_key)
+
+
+def rule_doc(rule: Rule) -> dict[str, Any]:
+    """The rule's metadata as a plain mapping (for `ledlint rules` and the SARIF rules section)."""
+    return {"id": rule.id, "summary": rule.summary, "severity": rule.severity.value,
+            "options": [{"name": o.name, "default": o.default, "unit": o.unit, "doc": o.doc} for o in rule.options],
+            "doc": rule.doc}
