@@ -6,9 +6,9 @@ import warnings
 from dataclasses import dataclass
 
 import numpy as np
-from numpy.typing import NDArray
+from numpy.typing import ArrayLike, NDArray
 
-from ledlint.engine.model import Circuit, ModelError, Range
+from ledlint.engine.model import Circuit, ModelError
 from ledlint.engine.solver import Cases, Setup, Solution
 from ledlint.engine.thermal import heated
 
@@ -63,8 +63,10 @@ class MonteCarlo:
     spread_summary: Summary  # scalars
 
 
-def _uniform(rng: np.random.Generator, r: Range, size: int) -> Array:
-    return rng.uniform(r.minimum, r.maximum, size)
+def _uniform(rng: np.random.Generator, low: ArrayLike, high: ArrayLike,
+             size: int | tuple[int, int]) -> Array:
+    # Read-only, so the cases take the draw without a copy.
+    return _frozen(rng.uniform(low, high, size))
 
 
 def monte_carlo(circuit: Circuit, samples: int = 10_000, seed: int = 0) -> MonteCarlo:
@@ -77,15 +79,15 @@ def monte_carlo(circuit: Circuit, samples: int = 10_000, seed: int = 0) -> Monte
     cases = Cases.build(
         circuit,
         samples,
-        drive=_uniform(rng, circuit.drive, samples),
-        r_series=_uniform(rng, circuit.r_series, samples),
-        r_switch=_uniform(rng, circuit.r_switch, samples),
-        v_switch=_uniform(rng, circuit.v_switch, samples),
-        ambient=_uniform(rng, circuit.ambient, samples),
-        r_branch=rng.uniform([b.r.minimum for b in branches], [b.r.maximum for b in branches],
-                             (samples, len(branches))),
-        vf=rng.uniform([d.vf.minimum for d in leds], [d.vf.maximum for d in leds],
-                       (samples, len(leds))),
+        drive=_uniform(rng, circuit.drive.minimum, circuit.drive.maximum, samples),
+        r_series=_uniform(rng, circuit.r_series.minimum, circuit.r_series.maximum, samples),
+        r_switch=_uniform(rng, circuit.r_switch.minimum, circuit.r_switch.maximum, samples),
+        v_switch=_uniform(rng, circuit.v_switch.minimum, circuit.v_switch.maximum, samples),
+        ambient=_uniform(rng, circuit.ambient.minimum, circuit.ambient.maximum, samples),
+        r_branch=_uniform(rng, [b.r.minimum for b in branches], [b.r.maximum for b in branches],
+                          (samples, len(branches))),
+        vf=_uniform(rng, [d.vf.minimum for d in leds], [d.vf.maximum for d in leds],
+                    (samples, len(leds))),
     )
     solution = heated(Setup.of(circuit), cases)
     current = solution.led_current
