@@ -6,7 +6,7 @@ import warnings
 from dataclasses import dataclass
 
 import numpy as np
-from numpy.typing import ArrayLike, NDArray
+from numpy.typing import NDArray
 
 from ledlint.engine.model import Circuit, ModelError
 from ledlint.engine.solver import Cases, Setup, Solution
@@ -43,9 +43,11 @@ class Summary:
         with warnings.catch_warnings():
             # All-NaN columns give NaN statistics, which is the honest answer.
             warnings.simplefilter("ignore", RuntimeWarning)
-            stats = _NAN_AWARE if np.isnan(values).any() else _PLAIN
-            p01, p99 = stats[4](values, [1, 99], axis=0)
-            return cls(*(_frozen(f(values, axis=0)) for f in stats[:4]), _frozen(p01), _frozen(p99))
+            mean, std, low, high, percentile = _NAN_AWARE if np.isnan(values).any() else _PLAIN
+            p01, p99 = percentile(values, [1, 99], axis=0)
+            return cls(mean=_frozen(mean(values, axis=0)), std=_frozen(std(values, axis=0)),
+                       minimum=_frozen(low(values, axis=0)), maximum=_frozen(high(values, axis=0)),
+                       p01=_frozen(p01), p99=_frozen(p99))
 
 
 @dataclass(frozen=True)
@@ -63,7 +65,7 @@ class MonteCarlo:
     spread_summary: Summary  # scalars
 
 
-def _uniform(rng: np.random.Generator, low: ArrayLike, high: ArrayLike,
+def _uniform(rng: np.random.Generator, low: float | list[float], high: float | list[float],
              size: int | tuple[int, int]) -> Array:
     # Read-only, so the cases take the draw without a copy.
     return _frozen(rng.uniform(low, high, size))

@@ -22,6 +22,7 @@ monotonically after its first step).
 from __future__ import annotations
 
 from dataclasses import dataclass, fields
+from typing import Any
 
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
@@ -387,7 +388,7 @@ def solve_state(setup: Setup, cases: Cases, jn: Junctions, start: Array | None =
     return State(vj=vj, branch_current=i_k, node_voltage=v)
 
 
-def _read_only(x: Array) -> Array:
+def _read_only(x: NDArray[Any]) -> NDArray[Any]:
     """Mark a result array read-only; results are built from fresh arrays, so none is copied."""
     x.setflags(write=False)
     return x
@@ -437,7 +438,7 @@ class Solution:
         v_led = state.vj + setup.table.r_s * i_led
         common = i_k.sum(axis=1)
         path = _Path.of(setup, cases)
-        values = {
+        values: dict[str, NDArray[Any]] = {
             "led_current": i_led,
             "led_voltage": v_led,
             "led_power": v_led * i_led,
@@ -468,7 +469,8 @@ class Solution:
         })
 
     def take(self, index: ArrayLike) -> Solution:
-        return Solution(**{f.name: _read_only(getattr(self, f.name)[index]) for f in fields(self)})
+        values: dict[str, NDArray[Any]] = {f.name: getattr(self, f.name)[index] for f in fields(self)}
+        return Solution(**{name: _read_only(x) for name, x in values.items()})
 
 
 def solve(circuit: Circuit, cases: Cases) -> Solution:

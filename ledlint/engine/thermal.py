@@ -49,7 +49,8 @@ def heated(setup: Setup, cases: Cases, start: Array | None = None) -> Solution:
         if np.all(settled | runaway):
             break
         lin = Linearised.at(setup, cases, jn, state)
-        new = np.minimum(tj + _newton_step(setup, jn, state, lin, heat - tj), TJ_CEILING)
+        # P ≥ 0, so the steady state lies between the ambient and the ceiling.
+        new = np.clip(tj + _newton_step(setup, jn, state, lin, heat - tj), ambient, TJ_CEILING)
         vj = state.vj + _predicted_shift(setup, jn, state, lin, new - tj)
     return Solution.of(setup, cases, state, tj, settled)
 
