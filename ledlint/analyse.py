@@ -11,7 +11,7 @@ from __future__ import annotations
 import re
 import zlib
 from dataclasses import dataclass, field
-from types import MappingProxyType
+from ledlint.frozen import FrozenMap
 from typing import Mapping
 
 import numpy as np
@@ -102,6 +102,7 @@ class Analysis:
     loop_gain: float | None = None
     unlimited: bool = False
     ambiguity: str = ""
+    engine: tuple[ECircuit, ...] = ()  # the engine's circuits, one per string lit alone or one in all
 
 
 @dataclass(frozen=True)
@@ -110,7 +111,7 @@ class BoardAnalysis:
     circuits: tuple[LedCircuit, ...]
     analyses: tuple[Analysis, ...]
     cautions: tuple[str, ...]  # safety: mains or high voltage seen on the board
-    parts: Mapping[str, Component] = field(default_factory=lambda: MappingProxyType({}))
+    parts: Mapping[str, Component] = field(default_factory=lambda: FrozenMap({}))
 
 
 def _add(a: Range, b: Range) -> Range:
@@ -121,13 +122,21 @@ def _sub(a: Range, b: Range) -> Range:
     return Range(a.nominal - b.nominal, a.minimum - b.maximum, a.maximum - b.minimum)
 
 
+def _supply_pins(comp: Component) -> list[Pin]:
+    return [p for p in comp.pins if p.net is not None
+            and (p.type is PinType.POWER_IN or re.match(r"^(V|AV|DV|IOV)(CC|DD)", p.name, re.I))]
+
+
+def _is_ground(net: str | None, config: Config) -> bool:
+    r = rail_params(net, config) if net else None
+    return r is not None and r.ground
+
+
 def ic_supply(comp: Component, config: Config) -> tuple[Range, str] | None:
     """The positive rail an IC runs from: the I/O supply if named, else its highest known rail."""
     found = []
-    for p in comp.pins:
-        if p.net is None or not (p.type is PinType.POWER_IN or re.match(r"^(V|AV|DV|IOV)(CC|DD)", p.name, re.I)):
-            continue
-        r = rail_params(p.net, config)
+    for p in _supply_pins(comp):
+        r = rail_params(p.net, config)  # type: ignore[arg-type]
         if r is not None and not r.ground and r.nominal > 0:
             io = bool(re.search(r"IO", p.name, re.I))
             found.append((io, r.nominal, Range(r.nominal, r.minimum, r.maximum), f"{comp.ref} runs from "
@@ -170,9 +179,11 @@ class _Context:
                 return Range.fixed(0.0), pr
             sup = ic_supply(ic, self.config)
             if sup is None:
-                missing.append(Missing("supply voltage", f"{ic.ref} drives {t.net}, and none of its supply pins is "
-                                       "on a rail of known voltage", f"set the voltage of {ic.ref}'s supply net in "
-                                       "ledlint.toml: [rails.\"NET\"] nominal = 3.3"))
+                nets = sorted({p.net for p in _supply_pins(ic) if not _is_ground(p.net, self.config)})
+                where = f"its supply pins are on {', '.join(nets)}" if nets else "no supply pin of it is connected"
+                example = nets[0] if nets else "NET"
+                missing.append(Missing("supply voltage", f"{ic.ref} drives LEDs, and {where}, with no voltage "
+                                       "known", f"set it in ledlint.toml: [rails.\"{example}\"] nominal = 3.3"))
                 return None
             basis.append(f"{t.detail} sources its supply: {sup[1]}; output resistance "
                          f"{pr.minimum:g}-{pr.maximum:g} Ω assumed")
@@ -288,6 +299,7 @@ class _Analyser:
                                    "(typical GPIO at 20 mA, field-facts §9, common practice)")
             solved.append(self.solve_voltage(c, src, ret, supply.volts, rc, _add(r_pin, r_sw), v_sw, common_res,
                                              [branch_leds[k] for k in ks], [branch_res[k] for k in ks]))
+        engines = tuple(s.engine for s in solved)
         results = tuple(r for s in solved for r in s.leds)
         resistors = tuple(_worst_per_ref([r for s in solved for r in s.resistors]))
         pins = tuple(p for s in solved for p in s.pins)
@@ -295,7 +307,7 @@ class _Analyser:
         return Analysis(c, True, (), tuple(dict.fromkeys(assumptions)), first_supply, None, results, resistors,
                         pins, max(s.nominal for s in solved), min(s.headroom for s in solved),
                         min(s.min_ratio for s in solved), solved[0].sharing if len(solved) == 1 else None,
-                        max(gains) if gains else None, unlimited, ambiguity)
+                        max(gains) if gains else None, unlimited, ambiguity, engines)
 
     def resistor(self, e: Element) -> ResistorParams:
         return resistor_params(self.ctx.comp(e.ref), self.ctx.config)
@@ -338,7 +350,7 @@ class _Analyser:
         if len(ebranches) >= 2:
             sharing = _sharing(ec, cor, flat, _seed(c), float(nominal.common_current) / len(ebranches))
             per_led = sharing.equal_share
-        return _Solved(tuple(results), tuple(resistors), tuple(pins), headroom, ratio, gain, sharing, per_led)
+        return _Solved(tuple(results), tuple(resistors), tuple(pins), headroom, ratio, gain, sharing, per_led, ec)
 
     # -------------------------------------------------------------- blocked
     def blocked(self, c: LedCircuit) -> Analysis:
@@ -409,7 +421,7 @@ class _Analyser:
             headroom = sup[0].volts.minimum - worst - setc.sense_voltage.maximum - setc.dropout.maximum
         return Analysis(c, True, tuple(missing), tuple(dict.fromkeys(notes)), sup[0] if sup else None, setc,
                         tuple(_led_results(cor, flat)), tuple(resistors), (), setc.current.nominal / k, headroom,
-                        None, sharing, None, False, ambiguity)
+                        None, sharing, None, False, ambiguity, (ec,))
 
     def _spec_or_stand_in(self, p: LedParams) -> LedSpec:
         if p.complete:
@@ -427,6 +439,7 @@ class _Solved:
     loop_gain: float | None
     sharing: Sharing | None
     nominal: float
+    engine: ECircuit
 
 
 def _led_results(cor: Corners, flat: list[LedParams]) -> list[LedResult]:
@@ -513,4 +526,4 @@ def analyse(netlist: Netlist, config: Config) -> BoardAnalysis:
     analyser = _Analyser(_Context(netlist, graph, config))
     analyses = tuple(analyser.run(c) for c in circuits)
     return BoardAnalysis(netlist, circuits, analyses, cautions(netlist, circuits, analyses, config),
-                         MappingProxyType({c.ref: c for c in netlist.components}))
+                         FrozenMap({c.ref: c for c in netlist.components}))

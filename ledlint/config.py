@@ -12,7 +12,7 @@ import re
 import tomllib
 from dataclasses import dataclass, field
 from pathlib import Path
-from types import MappingProxyType
+from ledlint.frozen import FrozenMap
 from typing import Any, Mapping
 
 from ledlint.errors import ConfigError
@@ -57,7 +57,7 @@ class Waiver:
 
 
 def _empty() -> Mapping[str, Any]:
-    return MappingProxyType({})
+    return FrozenMap({})
 
 
 @dataclass(frozen=True)
@@ -144,9 +144,9 @@ def _parts(table: Any, label: str, path: str) -> Mapping[str, Mapping[str, str]]
         where = f"[{label}.{key!r}]"
         settings = _table(raw, where, path)
         _check_keys(settings, PART_KEYS, where, path)
-        out[key] = MappingProxyType({canonical[k.casefold()]: _text(v, f"{where} {k}", path)
+        out[key] = FrozenMap({canonical[k.casefold()]: _text(v, f"{where} {k}", path)
                                      for k, v in settings.items()})
-    return MappingProxyType(out)
+    return FrozenMap(out)
 
 
 def _text(value: Any, where: str, path: str) -> str:
@@ -199,13 +199,13 @@ def from_mapping(data: Mapping[str, Any], path: str = "") -> Config:
             raise ConfigError(f"[ambient]: min {lo} °C is above max {hi} °C", path)
         kwargs.update(ambient_min_c=lo, ambient_max_c=hi)
     if "rails" in data:
-        kwargs["rails"] = MappingProxyType({n: _rail(n, r, path) for n, r in _table(data["rails"], "[rails]", path).items()})
+        kwargs["rails"] = FrozenMap({n: _rail(n, r, path) for n, r in _table(data["rails"], "[rails]", path).items()})
     for label in ("refs", "values", "symbols"):
         if label in data:
             kwargs[label] = _parts(data[label], label, path)
     if "rules" in data:
         rules = _table(data["rules"], "[rules]", path)
-        kwargs["rules"] = MappingProxyType({k: MappingProxyType(dict(_table(v, f"[rules.{k}]", path)))
+        kwargs["rules"] = FrozenMap({k: FrozenMap(dict(_table(v, f"[rules.{k}]", path)))
                                             for k, v in rules.items()})
     if "waivers" in data:
         kwargs["waivers"] = _waivers(data["waivers"], path)

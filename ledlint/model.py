@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 from enum import Enum
-from types import MappingProxyType
+from ledlint.frozen import FrozenMap
 from typing import Mapping
 
 
@@ -44,7 +44,7 @@ _PIN_TYPE_SPELLINGS = {t.value: t for t in PinType} | {
 
 
 def _empty() -> Mapping[str, str]:
-    return MappingProxyType({})
+    return FrozenMap({})
 
 
 @dataclass(frozen=True, slots=True)
@@ -139,8 +139,8 @@ class Netlist:
     _by_net: Mapping[str, Net] = field(default_factory=_empty, init=False, repr=False, compare=False)
 
     def __post_init__(self) -> None:
-        object.__setattr__(self, "_by_ref", MappingProxyType({c.ref: c for c in self.components}))
-        object.__setattr__(self, "_by_net", MappingProxyType({n.name: n for n in self.nets}))
+        object.__setattr__(self, "_by_ref", FrozenMap({c.ref: c for c in self.components}))
+        object.__setattr__(self, "_by_net", FrozenMap({n.name: n for n in self.nets}))
 
     def component(self, ref: str) -> Component | None:
         return self._by_ref.get(ref)

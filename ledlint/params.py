@@ -18,7 +18,7 @@ from ledlint.ledtypes import (AMBIGUOUS_GREEN, INDICATOR_IF_MAX, INDICATOR_RTH, 
 from ledlint.model import Component
 from ledlint.rails import RailKind, rail_from_net_name
 from ledlint.ratings import rating_from_footprint
-from ledlint.units import (Quantity, Unknown, parse_current, parse_power, parse_resistance,
+from ledlint.units import (Quantity, Unknown, parse_current, quantity, parse_power, parse_resistance,
                            parse_thermal_resistance, parse_tolerance, parse_vf, parse_voltage)
 
 
@@ -45,8 +45,10 @@ class Param:
     def assumed(self) -> bool:
         return self.origin in (Origin.DEFAULT, Origin.NET_NAME)
 
-    def describe(self) -> str:
-        return f"{self.detail} ({self.origin.value})"
+    def describe(self, unit: str = "") -> str:
+        """'2.5 V: maximum of a red LED, built-in table' (units.quantity formats the value)."""
+        shown = quantity(self.value, unit) if unit else f"{self.value:g}"
+        return f"{shown}: {self.detail}"
 
 
 @dataclass(frozen=True)
@@ -116,7 +118,7 @@ def resistor_params(component: Component, config: Config) -> ResistorParams:
     if tolerance is None:
         q = parse_tolerance(component.value)
         tolerance = (Param(q.value, Origin.VALUE, f"value {component.value!r}") if q else
-                     Param(DEFAULT_TOLERANCE, Origin.DEFAULT, "±5 %, the general-purpose tolerance"))
+                     Param(DEFAULT_TOLERANCE, Origin.DEFAULT, "general-purpose resistor"))
     power, _ = _quantity(component, config, ("Power",), parse_power)
     upper = DEFAULT_UPPER_CATEGORY_C
     if power is None:
@@ -183,7 +185,7 @@ def _technology(component: Component, config: Config, die: str) -> tuple[str | N
             return colour, f"die {die} of {component.ref}"
     text = " ".join([component.value, component.part, component.description,
                      *(v for k, v in component.fields.items() if k.casefold() == "description")])
-    return colour_from_text(text), f"colour named in {component.ref}'s value or description"
+    return colour_from_text(text), f"colour from {component.ref}'s value or description"
 
 
 def led_params(component: Component, config: Config, die: str = "") -> LedParams:
@@ -209,19 +211,19 @@ def led_params(component: Component, config: Config, die: str = "") -> LedParams
         if iq is not None:
             i_test = Param(iq.value, vf_field.origin, vf_field.detail)
     elif tech:
-        vf = Param(tech.vf_typ, Origin.DEFAULT, f"{tech.name} LED, typical ({tech.source}; {colour_where})")
+        vf = Param(tech.vf_typ, Origin.DEFAULT, f"typical {tech.name} LED, built-in table ({colour_where})")
     else:
-        vf = Missing("Vf", f"{component.ref}{':' + die if die else ''}: {ambiguity or 'no Vf'}",
-                     f"add a field Vf (e.g. Vf = 2.0V@20mA) to {component.ref}")
+        vf = Missing("Vf", ambiguity or "no Vf", "add a field Vf (e.g. Vf = 2.0V@20mA) to each, or name the "
+                     "colour in the value (red, yellow, green GaP or InGaN, blue, white, ...)")
 
     def bound(key: str, table_value: float | None, sign: int) -> Param | Missing:
         p, _ = _quantity(component, config, _die_key(key, die), parse_voltage)
         if p:
             return p
         if isinstance(vf, Param) and (vf.origin is not Origin.DEFAULT or table_value is None):
-            return Param(vf.value * (1 + sign * SPREAD), vf.origin, f"{vf.detail}, ±10 % spread assumed")
+            return Param(vf.value * (1 + sign * SPREAD), Origin.DEFAULT, f"typical {'+' if sign > 0 else '−'}10 %")
         if isinstance(vf, Param) and table_value is not None:
-            return Param(table_value, Origin.DEFAULT, f"{tech.name} LED table ({tech.source})")
+            return Param(table_value, Origin.DEFAULT, f"maximum of a {tech.name} LED, built-in table")
         return Missing(key, vf.reason if isinstance(vf, Missing) else key, f"add a field {key} to {component.ref}")
 
     vf_max = bound("Vf_max", tech.vf_max if tech else None, +1)
@@ -232,18 +234,17 @@ def led_params(component: Component, config: Config, die: str = "") -> LedParams
     if if_max is None:
         if is_indicator_footprint(component.footprint):
             lo, if_upper = INDICATOR_IF_MAX
-            if_max = Param(lo, Origin.DEFAULT, "20 mA, the common rating of small indicator LEDs (20-30 mA)")
+            if_max = Param(lo, Origin.DEFAULT, "small indicator LEDs are commonly rated 20-30 mA")
         else:
             if_max = Missing("If_max", f"{component.ref}: no If_max field, and footprint "
                              f"{component.footprint!r} is not a small indicator package",
                              f"add a field If_max (e.g. If_max = 350mA) to {component.ref}")
     vr_max, _ = _quantity(component, config, _die_key("Vr_max", die), parse_voltage)
-    vr_max = vr_max or Param(VR_MAX, Origin.DEFAULT, "5 V, the usual LED reverse-voltage rating")
+    vr_max = vr_max or Param(VR_MAX, Origin.DEFAULT, "the usual LED reverse-voltage rating")
     rth, _ = _quantity(component, config, _die_key("Rth", die), parse_thermal_resistance)
     if rth is None and is_indicator_footprint(component.footprint):
-        rth = Param(INDICATOR_RTH, Origin.DEFAULT, "400 K/W, a small indicator package")
-    tc = Param(tech.tc if tech else -0.002, Origin.DEFAULT,
-               f"{(tech.tc if tech else -0.002) * 1000:.1f} mV/K, {tech.name if tech else 'general'} LED")
+        rth = Param(INDICATOR_RTH, Origin.DEFAULT, "typical of a small indicator package")
+    tc = Param(tech.tc if tech else -0.002, Origin.DEFAULT, f"{tech.name if tech else 'general'} LED")
     rating = if_max.value if isinstance(if_max, Param) else i_test.value * 1.5
     return LedParams(
         ref=component.ref, die=die, technology=tech.name if tech else (colour or ""), vf=vf, vf_min=vf_min,
@@ -292,4 +293,4 @@ PIN_RESISTANCE = (40.0, 50.0, 65.0)
 
 def pin_limit(component: Component, config: Config) -> Param:
     p, _ = _quantity(component, config, ("pin_current_max",), parse_current)
-    return p or Param(PIN_LIMIT, Origin.DEFAULT, "20 mA per pin, a typical GPIO rating")
+    return p or Param(PIN_LIMIT, Origin.DEFAULT, "a typical GPIO pin rating")

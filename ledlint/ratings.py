@@ -181,3 +181,12 @@ def derated_power(
     if ambient_c >= upper_category_c:
         return 0.0
     return p70 * (upper_category_c - ambient_c) / (upper_category_c - rated_ambient_c)
+
+
+def chip_for(watts: float) -> tuple[str, float] | None:
+    """The smallest chip size whose commonly quoted rating covers ``watts``; None above 2512."""
+    rows = sorted((r for r in _CHIPS if r.basis == _COMMON_DEFAULT), key=lambda r: r.watts)
+    for row in rows:
+        if row.watts >= watts:
+            return row.imperial, row.watts
+    return None

@@ -5,7 +5,7 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass, field
 from pathlib import Path
-from types import MappingProxyType
+from ledlint.frozen import FrozenMap
 
 from ledlint.errors import InputError
 from ledlint.model import Component, Net, Netlist, Note, Pin, PinType, Sheet
@@ -287,7 +287,7 @@ class _Builder:
                 pins.append(Pin(ref, number, lib_name, PinType.from_text(lib_type), None))
         return Component(
             ref=ref, value=value, footprint=footprint, datasheet=datasheet, description=description,
-            lib=lib, part=part, fields=MappingProxyType(fields), properties=MappingProxyType(properties),
+            lib=lib, part=part, fields=FrozenMap(fields), properties=FrozenMap(properties),
             dnp=dnp, exclude_from_bom="exclude_from_bom" in properties, sheet=sheet or "/",
             line=self.line(comp), pins=tuple(pins),
         )

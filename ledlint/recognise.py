@@ -16,7 +16,7 @@ from enum import Enum
 from ledlint.config import DRIVER_KEYS, Config
 from ledlint.graph import NetGraph
 from ledlint.model import Component, Pin
-from ledlint.parts import Kind, classify, led_dies
+from ledlint.parts import Kind, classify, led_dies, transistor_pins
 from ledlint.topology import Element, ElementKind, Segment, Terminal, TerminalKind, Topology
 
 
@@ -198,10 +198,12 @@ class _Recogniser:
         parts = [c for c in self.graph.parts_on(net) if c.ref != comp.ref and not c.dnp]
         for c in parts:  # a second transistor whose base-emitter senses the emitter resistor
             if classify(c) in (Kind.NPN, Kind.NMOS):
-                for e in self.topo.elements:
-                    if e.ref == c.ref and e.net_a == net:
-                        return Reference("vbe", (c.ref,), detail=f"{c.ref} clamps the base at one V_BE across "
-                                                                 f"the emitter resistor")
+                roles, _ = transistor_pins(c)
+                base = c.pin(roles.get("B") or roles.get("G") or "")
+                collector = c.pin(roles.get("C") or roles.get("D") or "")
+                if base and collector and collector.net == net and base.net == transistor.net_b:
+                    return Reference("vbe", (c.ref,), detail=f"{c.ref} clamps the base at one V_BE across "
+                                                             "the emitter resistor")
         zeners = [c for c in parts if classify(c) is Kind.ZENER]
         feeds = [c for c in parts if classify(c) is Kind.RESISTOR]
         rail = ""

@@ -12,7 +12,7 @@ import pkgutil
 import re
 from dataclasses import dataclass, field, replace
 from importlib.metadata import entry_points
-from types import MappingProxyType
+from ledlint.frozen import FrozenMap
 from typing import Any, Callable, Iterator, Mapping
 
 from ledlint.analyse import Analysis, BoardAnalysis
@@ -53,7 +53,7 @@ class RuleContext:
     rule: Rule
     board: BoardAnalysis
     path: str  # the netlist as the user named it
-    options: Mapping[str, float] = field(default_factory=lambda: MappingProxyType({}))
+    options: Mapping[str, float] = field(default_factory=lambda: FrozenMap({}))
 
     @property
     def analyses(self) -> tuple[Analysis, ...]:
@@ -132,8 +132,8 @@ def settings(rules: tuple[Rule, ...], config: Config) -> RuleSettings:
     for rule in rules:
         merged = rule.option_defaults()
         merged.update({k: float(v) for k, v in config.rules.get(rule.id, {}).items() if k != "severity"})
-        options[rule.id] = MappingProxyType(merged)
-    return RuleSettings(MappingProxyType(options), MappingProxyType(severity))
+        options[rule.id] = FrozenMap(merged)
+    return RuleSettings(FrozenMap(options), FrozenMap(severity))
 
 
 def run_rules(rules: tuple[Rule, ...], board: BoardAnalysis, path: str, rule_settings: RuleSettings) -> list[Finding]:
@@ -143,7 +143,7 @@ def run_rules(rules: tuple[Rule, ...], board: BoardAnalysis, path: str, rule_set
         override = rule_settings.severity.get(rule.id, "")
         if override == "off":
             continue
-        ctx = RuleContext(rule, board, path, rule_settings.options.get(rule.id, MappingProxyType({})))
+        ctx = RuleContext(rule, board, path, rule_settings.options.get(rule.id, FrozenMap({})))
         for f in rule.check(ctx):
             if override:
                 f = replace(f, severity=Severity(override))
