@@ -1,0 +1,63 @@
+"""Shared wording for the built-in rules: what a finding rests on, and severity by evidence."""
+
+from __future__ import annotations
+
+from typing import Iterable
+
+from ledlint.analyse import Analysis, LedResult, ResistorResult
+from ledlint.findings import Severity
+from ledlint.params import Missing, Origin, Param
+
+
+def assumed_param(name: str, p: Param | Missing | None, unit: str = "") -> list[str]:
+    """'D3 Vf max 2.5 V: maximum of a red LED, built-in table' when the netlist did not state it."""
+    if isinstance(p, Param) and p.origin in (Origin.DEFAULT, Origin.FOOTPRINT):
+        return [f"{name} {p.describe(unit)}"]
+    return []
+
+
+def led_assumptions(led: LedResult, *, limit: bool = False, vf: bool = True) -> list[str]:
+    p = led.params
+    out: list[str] = []
+    if vf:
+        out += assumed_param(f"{led.id} Vf", p.vf, "V") + assumed_param(f"{led.id} Vf min", p.vf_min, "V") \
+            + assumed_param(f"{led.id} Vf max", p.vf_max, "V")
+    if limit:
+        out += assumed_param(f"{led.id} If_max", p.if_max, "A")
+    return out
+
+
+def resistor_assumptions(r: ResistorResult, *, rating: bool = False) -> list[str]:
+    out = assumed_param(f"{r.ref} tolerance ±", r.params.tolerance, "%")
+    if rating:
+        out += assumed_param(f"{r.ref} rating", r.params.power, "W")
+    return out
+
+
+def circuit_assumptions(a: Analysis) -> list[str]:
+    out = list(a.supply.basis) if a.supply else []
+    out += list(a.assumptions)
+    if a.set_current is not None:
+        out.append(f"set current: {a.set_current.basis}")
+    return out
+
+
+def by_evidence(severity: Severity, assumed: bool) -> Severity:
+    """A finding whose limit is only a built-in default is one step less severe."""
+    return severity.lowered() if assumed else severity
+
+
+def is_default(p: Param | Missing | None) -> bool:
+    return isinstance(p, Param) and p.origin is Origin.DEFAULT
+
+
+def join(items: Iterable[str]) -> str:
+    items = list(items)
+    if len(items) <= 2:
+        return " and ".join(items)
+    return ", ".join(items[:-1]) + " and " + items[-1]
+
+
+def ids(leds: Iterable[LedResult | str]) -> str:
+    names = [x if isinstance(x, str) else x.id for x in leds]
+    return join(names) if len(names) <= 6 else f"{names[0]} … {names[-1]} ({len(names)} LEDs)"

@@ -1,0 +1,106 @@
+"""current-margin: an LED's worst-case forward current against its rated maximum.
+
+What it flags
+    An LED whose current at the worst corner (highest supply, lowest ballast, lowest Vf,
+    hottest ambient, and for LEDs sharing a resistor or a driver, the split that favours it)
+    is above 75 % of its rated continuous forward current If_max (warning) or above If_max
+    (error). It applies to resistor-fed strings, banks, transistor sinks and drivers alike.
+
+Why it matters
+    LED light output and lifetime fall fast with overdrive, and an indicator run at its
+    absolute maximum dies early in a warm enclosure. The trade keeps a 25 % margin: run a
+    20 mA part at 15 mA or less. The worst corner, not the nominal, is what some boards in a
+    production run will see.
+
+Example
+    A red LED (If_max 20 mA) on +5V through 150 Ω: nominal (5 − 1.85) / 150 = 21 mA, more
+    at 5.25 V with a −5 % resistor. Error. With 220 Ω the worst case is about 16 mA: still
+    above 15 mA, a warning; 270 Ω brings it to about 13.7 mA: clean.
+
+Fix
+    Raise the ballast to the E24 value in the hint (it re-solves the worst corner with it), or
+    lower a driver's set-point. The hint gives the power rating the new resistor needs.
+
+Formula
+    I = (V_supply − V_switch − Σ Vf(I, Tj)) / (R_ballast + R_source), solved with the LED's
+    Shockley model at each corner; worst = the largest over the corners (and, for parallel
+    strings, over the hogging corners). Warning when worst > margin · If_max, error when
+    worst > If_max.
+
+Source
+    75-80 % of the absolute maximum for indicator LEDs: common practice (field-facts §5b).
+    Ohm's law; the Shockley diode equation with series resistance (field-facts §5c).
+"""
+
+from __future__ import annotations
+
+from typing import Iterator
+
+from ledlint.findings import Finding, Severity, Value, quantity
+from ledlint.params import Param
+from ledlint.registry import Option, Rule, RuleContext
+from ledlint.rules._support import by_evidence, circuit_assumptions, ids, led_assumptions, resistor_assumptions
+from ledlint.sizing import ballast_for
+
+
+def check(ctx: RuleContext) -> Iterator[Finding]:
+    margin = ctx.options["margin"]
+    for a in ctx.analyses:
+        if not a.solved or a.unlimited:
+            continue
+        over = []  # (severity, led) for every LED past the margin; one finding per circuit
+        for led in a.leds:
+            if_max = led.params.if_max
+            if not isinstance(if_max, Param) or not led.params.complete:
+                continue  # no rating, or a stand-in LED model: missing-parameter says so
+            worst = led.current.maximum
+            if worst <= margin * if_max.value:
+                continue
+            severity = Severity.ERROR if worst > if_max.value else Severity.WARNING
+            # A built-in rating is a class default (20-30 mA for small indicators): only a
+            # current above the whole class's range keeps full severity.
+            assumed = if_max.assumed and not (led.params.if_max_upper and worst > led.params.if_max_upper)
+            over.append((by_evidence(severity, assumed), worst / if_max.value, led))
+        if not over:
+            continue
+        severity = max((s for s, _, _ in over), key=lambda s: s.rank)
+        _, _, led = max(over, key=lambda o: (o[0].rank, o[1]))
+        if_max = led.params.if_max
+        worst = led.current.maximum
+        limit = if_max.value if worst > if_max.value else margin * if_max.value
+        values = (Value("worst", worst, "A", limit, ">"), Value("nominal", led.current.nominal, "A"),
+                  Value("if_max", if_max.value, "A"), Value("allowed", margin * if_max.value, "A"))
+        where = "the worst corner" if a.sharing is None else "the worst corner of the current split"
+        template = ("{led} can carry {worst} at " + where + ", above "
+                    + ("its If_max of {if_max}" if worst > if_max.value else
+                       "{allowed}, the {pct} margin under its If_max of {if_max}") + " (nominal {nominal})")
+        others = [o[2].id for o in over if o[2] is not led]
+        if others:
+            template += "; also over the margin: {others}"
+        assumed_lines = led_assumptions(led, limit=True) + circuit_assumptions(a) + \
+            [x for r in a.resistors for x in resistor_assumptions(r)]
+        yield ctx.finding(a, severity, template, values=values, assumed=tuple(assumed_lines),
+                          hint=_hint(a, margin * if_max.value), led=led.id, pct=f"{(1 - margin) * 100:.0f} %",
+                          others=ids(others))
+
+
+def _hint(a, target: float) -> str:
+    if a.set_current is not None:
+        return (f"lower the set current so the worst string stays under {quantity(target, 'A')}, "
+                "or give each string its own output")
+    fix = ballast_for(a, target)
+    if fix is None:
+        return f"raise the ballast resistance until the worst case is under {quantity(target, 'A')}"
+    size = f"{fix.chip} or larger" if fix.chip else "a power resistor"
+    return (f"use {quantity(fix.resistance, 'Ω')} (E24): worst case {quantity(fix.current_max, 'A')}, "
+            f"{quantity(fix.power_max, 'W')} in the ballast, so at least {quantity(fix.rating, 'W')} rated ({size})")
+
+
+RULE = Rule(
+    id="current-margin",
+    summary="worst-case LED current above 75 % of If_max (warning) or above If_max (error)",
+    severity=Severity.WARNING,
+    check=check,
+    options=(Option("margin", 0.75, "fraction of If_max", "the share of If_max the worst case may reach"),),
+    doc=__doc__,
+)

@@ -1,0 +1,91 @@
+"""driver-headroom: a constant-current driver that cannot regulate over its input range.
+
+What it flags
+    A linear sink (an IC or a transistor) or a buck driver whose minimum input cannot cover
+    the string's maximum forward voltage plus the sense voltage plus the regulator's dropout;
+    a boost driver whose string needs more than its output limit, or less than its maximum
+    input (a boost cannot step down).
+
+Why it matters
+    Out of regulation, a "constant-current" circuit is a poorly chosen resistor: the current
+    follows the supply and the LEDs' Vf, exactly what the driver was bought to prevent. A
+    boost whose input exceeds the string voltage passes current through its inductor and
+    diode unregulated.
+
+Example
+    A linear sink with 0.2 V sense and 0.5 V dropout driving three white LEDs (3.4 V max each)
+    from a 12 V ±10 % rail: 10.8 − (10.2 + 0.2 + 0.5) = −0.1 V. Error. Fixed: two strings of
+    two LEDs, or a 15 V rail.
+
+Fix
+    Fewer LEDs per string, a higher input, a boost driver; for a boost, a string longer than
+    the maximum input (or a buck-boost).
+
+Formula
+    linear, buck: V_in,min ≥ Σ Vf,max(I_set, T_cold) + V_sense + V_dropout.
+    boost: Σ Vf,max ≤ V_out,max and Σ Vf,min > V_in,max.
+
+Source
+    Headroom structure of linear sinks and buck/boost drivers (field-facts §10; common
+    practice, with the published boost rule "at least 2 V greater than the maximum LED string
+    voltage + the maximum headroom" quoted there).
+"""
+
+from __future__ import annotations
+
+from typing import Iterator
+
+from ledlint.findings import Finding, Severity, Value
+from ledlint.recognise import CircuitKind
+from ledlint.registry import Rule, RuleContext
+from ledlint.rules._support import circuit_assumptions, ids, led_assumptions
+
+
+def check(ctx: RuleContext) -> Iterator[Finding]:
+    for a in ctx.analyses:
+        c = a.circuit
+        setc = a.set_current
+        if c.kind not in (CircuitKind.SINK, CircuitKind.DRIVER) or not a.solved or setc is None:
+            continue
+        out = c.sink.transistor.ref if c.sink else c.driver.ref  # type: ignore[union-attr]
+        limits = dict(setc.limits)
+        strings = [sum(r.params.vf_max.value for r in a.leds if r.id in {e.id for e in b.leds})
+                   for b in c.branches if all(r.params.complete for r in a.leds)]
+        assumed = tuple(x for r in a.leds for x in led_assumptions(r))[:6] + tuple(circuit_assumptions(a))
+        if setc.kind == "boost" and strings:
+            high = max(strings)
+            low = min(sum(r.params.vf_min.value for r in a.leds if r.id in {e.id for e in b.leds})
+                      for b in c.branches)
+            if "vout_max" in limits and high > limits["vout_max"]:
+                yield ctx.finding(a, Severity.ERROR, "{out} (boost) cannot reach the string voltage: {leds} need up "
+                                  "to {string}, its output limit is {vout}", values=(
+                                      Value("string", high, "V", limits["vout_max"], ">"),
+                                      Value("vout", limits["vout_max"], "V")), out=out, leds=ids(c.leds),
+                                  assumed=assumed, hint="shorter strings, or a driver with a higher output limit")
+            vin_max = limits.get("vin_max") or (a.supply.volts.maximum if a.supply else None)
+            if vin_max is not None and low <= vin_max:
+                yield ctx.finding(a, Severity.ERROR, "{out} (boost) cannot regulate: its input can reach {vin}, "
+                                  "above the string's least voltage {string}; a boost cannot step down",
+                                  values=(Value("vin", vin_max, "V"), Value("string", low, "V", vin_max, "<=")),
+                                  out=out, assumed=assumed, hint="more LEDs per string, or a buck-boost driver")
+            continue
+        if a.headroom_v is None or a.headroom_v >= 0:
+            continue
+        need = a.supply.volts.minimum - a.headroom_v  # type: ignore[union-attr]
+        yield ctx.finding(
+            a, Severity.ERROR, "{out} cannot hold its current: the input can fall to {vin}, but {leds} need {need} "
+            "(string at maximum Vf, plus {sense} sense and {dropout} dropout); short by {short}",
+            values=(Value("vin", a.supply.volts.minimum, "V"), Value("need", need, "V"),  # type: ignore[union-attr]
+                    Value("short", -a.headroom_v, "V", 0.0, ">"), Value("sense", setc.sense_voltage.maximum, "V"),
+                    Value("dropout", setc.dropout.maximum, "V")),
+            out=out, leds=ids(c.leds), assumed=assumed,
+            hint="fewer LEDs per string, a higher input, or a boost driver")
+
+
+RULE = Rule(
+    id="driver-headroom",
+    summary="constant-current driver or sink without the input voltage to regulate",
+    severity=Severity.ERROR,
+    check=check,
+    doc=__doc__,
+)

@@ -1,0 +1,129 @@
+"""driver-parallel-strings: strings in parallel on one constant-current output.
+
+What it flags
+    Two or more LED strings sharing one constant-current output: a driver IC's output or a
+    transistor current sink. Error when the worst string can exceed its LEDs' If_max;
+    warning when the split between strings is uneven by more than 10 %.
+
+Why it matters
+    A constant-current output regulates only the total. The strings share it by forward
+    voltage: the string with the lowest total Vf takes the most, heats, drops its Vf further
+    and takes more. One open string pushes its share into the others. A published
+    measurement: 700 mA into two strings of five LEDs from one batch, with 1 Ω balancing
+    resistors, split 306 / 394 mA.
+
+Example
+    Seven strings of four LEDs on one transistor sink of 93 mA, no balancing resistors:
+    13 mA per string on paper, but one string can take several times that. Fixed: one sink
+    per string, or a balancing resistor in each string that drops about 1 V.
+
+Fix
+    Give each string its own output (or its own sink transistor), or put a balancing resistor
+    in each string: its drop I·R must be large against the strings' Vf mismatch (the hint
+    gives the value for a 10 % split).
+
+Formula
+    Σ I_k = I_set; each string k: Σ Vf_j(I_k) + R_k·I_k = V_node. Monte Carlo with each LED's Vf
+    uniform within its range. Balancing: ΔI/I ≈ ΔV / (I·(R + r_d)), so R ≥ ΔV/(0.1·I) − r_d
+    for a 10 % split.
+
+Source
+    LEDs Magazine, "LED Design Forum: Avoiding thermal runaway when driving multiple LED
+    strings" (2009), as quoted in field-facts §7; the ΔI/I relation is derived there
+    (common practice).
+"""
+
+from __future__ import annotations
+
+from typing import Iterator
+
+from ledlint.eseries import ESeries, nearest_above
+from ledlint.findings import Finding, Severity, Value, quantity
+from ledlint.params import Param
+from ledlint.recognise import CircuitKind
+from ledlint.registry import Option, Rule, RuleContext
+from ledlint.rules._support import by_evidence, circuit_assumptions, ids, led_assumptions
+
+_VT = 0.02585  # V, kT/q at 300 K (field-facts §5c)
+# More than this across a balancing resistor wastes more than it balances (common practice).
+_MAX_BALANCING_DROP = 2.0
+
+
+def check(ctx: RuleContext) -> Iterator[Finding]:
+    limit = ctx.options["spread_limit"]
+    for a in ctx.analyses:
+        c = a.circuit
+        if c.kind not in (CircuitKind.SINK, CircuitKind.DRIVER) or len(c.branches) < 2:
+            continue
+        output = c.sink.transistor.ref if c.sink else c.driver.ref  # type: ignore[union-attr]
+        n = len(c.branches)
+        refs = (output, *c.refs)
+        stand_in = any(not r.params.complete for r in a.leds)
+        if a.sharing is None:
+            yield ctx.finding(a, Severity.WARNING, "{n} strings ({leds}) share one constant-current output, "
+                              "{output}: the current splits by forward voltage, not evenly (not computed: {why})",
+                              refs=refs, n=n, leds=ids(c.leds), output=output,
+                              why="; ".join(m.reason for m in a.missing) or "not analysed",
+                              hint="give each string its own output, or a balancing resistor")
+            continue
+        s = a.sharing
+        worst = next(r for r in a.leds if r.id == s.worst_led)
+        if_max = worst.params.if_max
+        over = isinstance(if_max, Param) and s.worst_current > if_max.value
+        if over:
+            severity = Severity.ERROR
+        elif s.spread_p99 > limit:
+            severity = Severity.WARNING
+        else:
+            continue
+        assumed = stand_in or (over and isinstance(if_max, Param) and if_max.assumed)
+        severity = by_evidence(severity, assumed)
+        values = [Value("share", s.equal_share, "A"), Value("spread", s.spread_p99, "%", limit, ">"),
+                  Value("worst", s.worst_current, "A", if_max.value if isinstance(if_max, Param) else None, ">"),
+                  Value("total", a.set_current.current.nominal, "A")]  # type: ignore[union-attr]
+        template = ("{n} strings share {output}'s {total}: {share} each on paper, but the split varies by up to "
+                    "{spread} of the mean ({samples} Monte Carlo samples) and the string with {led} can take {worst}")
+        if isinstance(if_max, Param):
+            values.append(Value("if_max", if_max.value, "A"))
+            template += ", above its If_max of {if_max}" if over else " (If_max {if_max})"
+        balancing = any(r.role == "balancing" for r in a.resistors)
+        if not balancing:
+            template += "; no balancing resistors"
+        if stand_in:
+            template += " (LED type unknown: the split assumes 2.0 V ±10 % per LED)"
+        notes = [x for r in a.leds for x in led_assumptions(r, limit=r is worst)][:6] + circuit_assumptions(a)
+        yield ctx.finding(a, severity, template, refs=refs, values=tuple(values), n=n, output=output,
+                          samples=s.samples, led=s.worst_led, hint=_hint(a, limit), assumed=tuple(notes))
+
+
+def _hint(a, limit: float) -> str:
+    share = a.sharing.equal_share
+    leds_per = max(len(b.leds) for b in a.circuit.branches)
+    p = a.leds[0].params
+    if p.complete:
+        mismatch = leds_per * (p.vf_max.value - p.vf_min.value)
+        rd = leds_per * (p.n * _VT / max(share, 1e-6) + p.r_s)
+    else:
+        mismatch, rd = leds_per * 0.4, leds_per * (2 * _VT / max(share, 1e-6) + p.r_s)
+    need = mismatch / (limit * share) - rd
+    text = "give each string its own output or sink transistor"
+    if need <= 0:
+        return text
+    r = nearest_above(need, ESeries.E24)
+    drop = r * share
+    if drop > _MAX_BALANCING_DROP:
+        return (text + f" (a balancing resistor would have to drop {quantity(drop, 'V')} to hold the split within "
+                f"{limit:.0%} against a worst-case Vf mismatch of {quantity(mismatch, 'V')})")
+    return text + (f", or put {quantity(r, 'Ω')} (E24) in series with each string: it drops {quantity(drop, 'V')} "
+                   f"against a worst-case Vf mismatch of {quantity(mismatch, 'V')}, for a split within {limit:.0%} "
+                   "(ΔI/I ≈ ΔV/(I·(R + r_d)))")
+
+
+RULE = Rule(
+    id="driver-parallel-strings",
+    summary="strings in parallel on one constant-current output: the split follows Vf",
+    severity=Severity.WARNING,
+    check=check,
+    options=(Option("spread_limit", 0.10, "fraction of the mean", "split unevenness from which to warn"),),
+    doc=__doc__,
+)

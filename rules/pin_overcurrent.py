@@ -1,0 +1,70 @@
+"""pin-overcurrent: a controller pin sourcing or sinking more LED current than it is rated for.
+
+What it flags
+    An IC output pin (a microcontroller GPIO, a logic gate, an I/O expander) that drives an
+    LED directly, where the LED current at the worst corner exceeds the pin's limit: 20 mA
+    per pin unless the part says otherwise (`pin_current_max`).
+
+Why it matters
+    A GPIO pushed past its rating sags (the LED dims and the pin's logic level is lost for
+    anything else on that net), heats the die and, summed over a port, can exceed the
+    package's supply-pin limit. Absolute maxima of 25-40 mA per pin are not operating points.
+
+Example
+    A red LED from a 3.3 V pin through 47 Ω: nearly 30 mA at the worst corner. Error. Fixed:
+    120 Ω, about 12 mA, or drive it through a transistor.
+
+Fix
+    Raise the series resistor to the E24 value in the hint, or switch the LED with a
+    transistor or a driver.
+
+Formula
+    I = (V_OH − Vf) / (R + R_pin) when sourcing, (V_supply − Vf − V_OL) / (R + R_pin) when
+    sinking, at the worst corner, with the pin's output resistance R_pin (40-65 Ω assumed).
+
+Source
+    Per-pin ratings of 8-25 mA and absolute maxima of 20-40 mA (field-facts §9, published
+    microcontroller datasheets, summarised there as common practice); the output-resistance
+    model is field-facts §9's derivation.
+"""
+
+from __future__ import annotations
+
+from typing import Iterator
+
+from ledlint.findings import Finding, Severity, Value, quantity
+from ledlint.registry import Rule, RuleContext
+from ledlint.rules._support import assumed_param, by_evidence, circuit_assumptions, ids
+from ledlint.sizing import ballast_for
+
+
+def check(ctx: RuleContext) -> Iterator[Finding]:
+    for a in ctx.analyses:
+        if not a.solved:
+            continue
+        for p in a.pins:
+            if p.current_max <= p.limit.value:
+                continue
+            severity = by_evidence(Severity.ERROR, p.limit.assumed)
+            verb = "sources" if p.sourcing else "sinks"
+            fix = ballast_for(a, p.limit.value * 0.75)
+            hint = (f"raise the series resistor to {quantity(fix.resistance, 'Ω')} (E24, worst case "
+                    f"{quantity(fix.current_max, 'A')}) or switch the LED with a transistor" if fix else
+                    "switch the LED with a transistor or a driver")
+            comp = ctx.board.parts.get(p.pin.ref)
+            yield ctx.finding(
+                a, severity, "{ic} pin {pin} ({net}) {verb} up to {current} for {leds}, above its limit of {limit}",
+                refs=(p.pin.ref, *a.circuit.refs), nets=(p.pin.net or "",),
+                values=(Value("current", p.current_max, "A", p.limit.value, ">"), Value("limit", p.limit.value, "A")),
+                assumed=tuple(assumed_param(f"{p.pin.ref} pin limit", p.limit, "A") + circuit_assumptions(a)), hint=hint,
+                ic=p.pin.ref, pin=p.pin.name or p.pin.number, net=p.pin.net, verb=verb, leds=ids(a.circuit.leds),
+                line=comp.line if comp else None)
+
+
+RULE = Rule(
+    id="pin-overcurrent",
+    summary="controller pin sourcing or sinking more LED current than its limit",
+    severity=Severity.ERROR,
+    check=check,
+    doc=__doc__,
+)

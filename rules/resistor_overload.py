@@ -1,0 +1,95 @@
+"""resistor-overload: a resistor's worst-case dissipation against its usable rating.
+
+What it flags
+    A ballast, balancing or sense resistor whose dissipation at its worst corner is above its
+    usable power: the rated power at 70 °C times the design factor (50 % by default), derated
+    further above 70 °C ambient on the IEC 60115-1 line. Error above the full (derated)
+    rating, warning above the usable one, info when the rating is not known.
+
+Why it matters
+    A chip resistor at its full rating runs hot enough to drift, darken the board and
+    fail early; the trade keeps continuous dissipation to about half the rating. A sense
+    resistor in a current sink carries the whole LED current, so a small package often
+    overloads there first.
+
+Example
+    A 100 Ω 0603 (0.1 W) ballast from +12V to one red LED: (12.6 − 1.7)² / 95 ≈ 1.25 W
+    would burn it; far above even the full rating: error. A 680 Ω part dissipates about
+    0.2 W at worst: needs 0.4 W usable rating, so a 1210 (0.5 W) or larger.
+
+Fix
+    Use the package or power rating in the hint, or raise the value where the current allows.
+
+Formula
+    P = I²·R at the worst corner. Usable = P70 · design factor · derating(Ta), with
+    derating(Ta) = 1 for Ta ≤ 70 °C and (T_UCT − Ta) / (T_UCT − 70 °C) above, T_UCT the upper
+    category temperature (155 °C for thick and metal film).
+
+Source
+    IEC 60115-1 rated dissipation at 70 °C and the linear derating to the upper category
+    temperature (field-facts §4). The 50 % design factor: common in-house practice
+    (field-facts §4, a resistor maker's article and a derating newsletter).
+"""
+
+from __future__ import annotations
+
+from typing import Iterator
+
+from ledlint.findings import Finding, Severity, Value, quantity
+from ledlint.params import Param
+from ledlint.ratings import chip_for, derated_power
+from ledlint.registry import Option, Rule, RuleContext
+from ledlint.rules._support import circuit_assumptions, resistor_assumptions
+
+
+def check(ctx: RuleContext) -> Iterator[Finding]:
+    factor = ctx.options["design_factor"]
+    for a in ctx.analyses:
+        if not a.solved:
+            continue
+        for r in a.resistors:
+            role = {"ballast": "ballast", "balancing": "balancing resistor", "sense": "sense resistor"}[r.role]
+            rating = r.params.power
+            comp = ctx.board.parts.get(r.ref)
+            footprint = comp.footprint if comp else ""
+            if not isinstance(rating, Param):
+                if r.power_max > 0.01:  # below 10 mW any resistor copes (the smallest chips are 1/32 W)
+                    yield ctx.finding(a, Severity.INFO, "{ref} ({role}) dissipates up to {power}; its power rating "
+                                      "is not known ({why})", refs=(r.ref,), values=(Value("power", r.power_max, "W"),),
+                                      ref=r.ref, role=role, why=rating.reason, hint=rating.fix, line=_line(ctx, r.ref))
+                continue
+            full = derated_power(rating.value, r.ambient_max, upper_category_c=r.params.upper_category_c)
+            usable = full * factor
+            if r.power_max > full:
+                severity, limit, what = Severity.ERROR, full, "its full rating of {rating}"
+            elif r.power_max > usable:
+                severity, limit, what = Severity.WARNING, usable, "{limit}, " + f"{factor:.0%}" + " of its {rating} rating"
+            else:
+                continue
+            need = r.power_max / factor / (full / rating.value) if full > 0 else float("inf")
+            chip = chip_for(need)
+            hint = (f"use a part rated at least {quantity(need, 'W')} at 70 °C"
+                    + (f" (a {chip[0]} chip, {quantity(chip[1], 'W')}, or larger)" if chip else " (a power resistor)"))
+            derated = "" if r.ambient_max <= 70 else f", derated to {quantity(full, 'W')} at {r.ambient_max:g} °C"
+            yield ctx.finding(
+                a, severity, "{ref} ({role}) dissipates up to {power} at its worst corner, above " + what +
+                " ({footprint}{derated})",
+                refs=(r.ref,), values=(Value("power", r.power_max, "W", limit, ">"), Value("rating", rating.value, "W"),
+                                       Value("limit", limit, "W"), Value("current", r.current_max, "A")),
+                assumed=tuple(resistor_assumptions(r, rating=True) + circuit_assumptions(a)), hint=hint,
+                ref=r.ref, role=role, footprint=footprint or "no footprint", derated=derated, line=_line(ctx, r.ref))
+
+
+def _line(ctx: RuleContext, ref: str) -> int | None:
+    comp = ctx.board.parts.get(ref)
+    return comp.line if comp else None
+
+
+RULE = Rule(
+    id="resistor-overload",
+    summary="resistor dissipation above its usable rating (design factor, IEC 60115-1 derating)",
+    severity=Severity.ERROR,
+    check=check,
+    options=(Option("design_factor", 0.5, "fraction of rating", "the share of the derated rating to use"),),
+    doc=__doc__,
+)

@@ -1,0 +1,124 @@
+"""shared-resistor-bank: LEDs or strings in parallel behind one resistor.
+
+What it flags
+    Two or more LEDs (or strings) in parallel whose current is set by one shared resistor.
+    Error when the worst LED can exceed its If_max; warning otherwise. When each LED is
+    switched by its own pin (a common-anode RGB LED on one resistor, say), an info: the
+    sharing only bites if two are lit at once.
+
+Why it matters
+    Parallel LEDs do not share a resistor's current evenly: the one with the lowest forward
+    voltage takes the most ("current hogging"), gets hotter, drops its Vf further and takes
+    more still. The resistor sets only the total. Two LEDs from one reel can differ by 0.1 V;
+    with about 10 Ω of dynamic resistance each that is a 10 mA imbalance on a 2 × 10 mA bank.
+
+Example
+    D1, D2, D3 (red) in parallel from +5V through one 100 Ω resistor: 31 mA in total, but
+    one LED can take well over its third. Fixed: one 270 Ω resistor per LED, or all three in
+    series from a 12 V rail through one resistor.
+
+Fix
+    Give each LED its own resistor (the hint sizes it for today's per-LED current), or put
+    the LEDs in series when the supply leaves enough headroom for the string.
+
+Formula
+    I₁ − I₂ ≈ δ / r_d for two LEDs on one node, independent of R (R sets only the total);
+    the report's spread is from a Monte Carlo with each LED's Vf uniform in its range,
+    resistor and supply tolerances, and the hogging corner (one LED at Vf min, the rest at
+    Vf max, highest supply, lowest R).
+
+Source
+    Current hogging: field-facts §7 (an LED application brief quoted there; LEDs Magazine,
+    "Avoiding thermal runaway when driving multiple LED strings", 2009). The δ / r_d
+    relation is derived from the Shockley equation (common practice, field-facts §7).
+"""
+
+from __future__ import annotations
+
+from typing import Iterator
+
+from ledlint.findings import Finding, Severity, Value, quantity
+from ledlint.params import Param
+from ledlint.recognise import CircuitKind
+from ledlint.registry import Rule, RuleContext
+from ledlint.rules._support import by_evidence, circuit_assumptions, ids, join, led_assumptions
+from ledlint.sizing import equal_share_resistor
+from ledlint.topology import ElementKind
+
+
+def check(ctx: RuleContext) -> Iterator[Finding]:
+    for a in ctx.analyses:
+        c = a.circuit
+        if c.kind is not CircuitKind.BANK:
+            continue
+        shared = [e.ref for e in c.top + c.bottom if e.kind is ElementKind.RESISTOR]
+        leds = list(c.leds)
+        refs = tuple(dict.fromkeys(shared + [i.split(":")[0] for i in leds]))
+        nets = (c.node,)
+        who = f"{ids(leds)} in parallel behind {join(shared)}"
+        if c.individually_driven:
+            pins = sorted({b.far.pin.ref + " " + (b.far.pin.name or b.far.pin.number)
+                           for b in c.branches if b.far and b.far.pin})
+            yield ctx.finding(a, Severity.INFO, "{who} on {node}, each switched by its own pin ({pins}); if two "
+                              "are lit at once the one with the lowest Vf takes most of the current",
+                              refs=refs, nets=nets, who=who, node=c.node, pins=", ".join(pins),
+                              hint="fine if only one is ever lit at a time; otherwise give each its own resistor",
+                              assumed=tuple(a.assumptions))
+            continue
+        if not a.solved or a.sharing is None:
+            yield ctx.finding(a, Severity.WARNING, "{who} on {node}: the current splits by forward voltage, not "
+                              "evenly (the split could not be computed: {why})", refs=refs, nets=nets, who=who,
+                              node=c.node, why="; ".join(m.reason for m in a.missing) or "not analysed",
+                              hint="give each LED its own resistor")
+            continue
+        s = a.sharing
+        worst = next(r for r in a.leds if r.id == s.worst_led)
+        if_max = worst.params.if_max
+        over = isinstance(if_max, Param) and s.worst_current > if_max.value
+        severity = Severity.ERROR if over else Severity.WARNING
+        assumed = over and isinstance(if_max, Param) and if_max.assumed and not (
+            worst.params.if_max_upper and s.worst_current > worst.params.if_max_upper)
+        severity = by_evidence(severity, assumed)
+        values = [Value("share", s.equal_share, "A"), Value("spread", s.spread_p99, "%"),
+                  Value("worst", s.worst_current, "A", if_max.value if isinstance(if_max, Param) else None, ">")]
+        template = ("{who} on {node}: the current splits by Vf, not evenly. Equal share {share} each, but "
+                    "the split varies by up to {spread} of the mean (99th percentile of {samples} Monte Carlo "
+                    "samples) and {led} can reach {worst}")
+        if isinstance(if_max, Param):
+            values.append(Value("if_max", if_max.value, "A"))
+            template += ", above its If_max of {if_max}" if over else " (If_max {if_max})"
+        yield ctx.finding(a, severity, template, refs=refs, nets=nets, values=tuple(values), who=who, node=c.node,
+                          samples=s.samples, led=s.worst_led, hint=_hint(a),
+                          assumed=tuple(led_assumptions(worst, limit=True) + circuit_assumptions(a)))
+
+
+def _hint(a) -> str:
+    c = a.circuit
+    n = len(c.branches)
+    share = a.sharing.equal_share
+    per_branch = [r for r in a.leds]
+    vf_typ = max(r.params.vf.value for r in per_branch)
+    vf_max = max(r.params.vf_max.value for r in per_branch)
+    v = a.supply.volts
+    parts = []
+    each = equal_share_resistor(v.nominal, vf_typ, share)
+    if each:
+        parts.append(f"give each LED its own {quantity(each, 'Ω')} resistor (E24, about {quantity(share, 'A')} "
+                     "each, as now)")
+    leds_per_branch = max(len(b.leds) for b in c.branches)
+    series_v = n * leds_per_branch * vf_max
+    if v.minimum - series_v >= 1.0:
+        r = equal_share_resistor(v.nominal, n * leds_per_branch * vf_typ, share)
+        if r:
+            parts.append(f"or put all {n * leds_per_branch} in series with one {quantity(r, 'Ω')} resistor "
+                         f"(string {quantity(series_v, 'V')} at most, supply {quantity(v.minimum, 'V')} at least)")
+    return "; ".join(parts) or "give each LED its own resistor"
+
+
+RULE = Rule(
+    id="shared-resistor-bank",
+    summary="LEDs or strings in parallel behind one resistor: the current splits by Vf",
+    severity=Severity.WARNING,
+    check=check,
+    doc=__doc__,
+)

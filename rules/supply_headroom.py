@@ -1,0 +1,82 @@
+"""supply-headroom: the supply barely above the string's forward voltage.
+
+What it flags
+    A resistor-fed LED circuit whose supply, at its minimum, leaves too little voltage for the
+    ballast once the LEDs are at their maximum forward voltage. Error when the string cannot
+    conduct its design current (no headroom left, or under 10 % of nominal current at the low
+    corner); warning when the low-corner current is under half the nominal.
+
+Why it matters
+    The ballast resistor only regulates the current if it has voltage to work with. A white
+    LED (3.0 V typical, 3.4 V maximum) on a 3.3 V rail runs anywhere from nearly off to full
+    brightness across parts and rail tolerance: panels look patchy and some boards ship with
+    dark indicators.
+
+Example
+    A white LED on +3V3 through 15 Ω: nominal about 10 mA, but at 3.14 V with a 3.4 V-max LED
+    it is nearly off. Fixed: run it from +5V through 150 Ω.
+
+Fix
+    Use a higher rail (the hint gives the least supply that leaves 1 V across the ballast),
+    fewer LEDs in series, a lower-Vf LED, or a constant-current driver.
+
+Formula
+    headroom = V_supply,min − V_switch,max − Σ Vf,max(I_nominal, T_cold); the low-corner
+    current is solved with the minimum supply, maximum resistances and switch drop, every LED
+    at its maximum Vf and the coldest ambient.
+
+Source
+    Ohm's law with the Shockley model (field-facts §5c); "ballast drop must be large compared
+    with the Vf shift" (field-facts §6, derived there; common practice).
+"""
+
+from __future__ import annotations
+
+from typing import Iterator
+
+from ledlint.findings import Finding, Severity, Value, quantity
+from ledlint.registry import Option, Rule, RuleContext
+from ledlint.rules._support import by_evidence, circuit_assumptions, ids, is_default, led_assumptions
+
+
+def check(ctx: RuleContext) -> Iterator[Finding]:
+    least = ctx.options["min_ratio"]
+    dead = ctx.options["dead_ratio"]
+    for a in ctx.analyses:
+        if not a.solved or a.unlimited or a.set_current is not None or a.headroom_v is None or a.min_ratio is None:
+            continue
+        if a.headroom_v <= 0 or a.min_ratio < dead:
+            severity = Severity.ERROR
+        elif a.min_ratio < least:
+            severity = Severity.WARNING
+        else:
+            continue
+        low = min(a.leds, key=lambda r: r.current.minimum / max(r.current.nominal, 1e-15))
+        severity = by_evidence(severity, any(is_default(r.params.vf_max) for r in a.leds))
+        string_v = a.supply.volts.minimum - a.headroom_v
+        values = (Value("supply_min", a.supply.volts.minimum, "V"), Value("string", string_v, "V"),
+                  Value("headroom", a.headroom_v, "V", 0.0, "<"), Value("low", low.current.minimum, "A"),
+                  Value("nominal", low.current.nominal, "A"), Value("ratio", a.min_ratio, "%", least, "<"))
+        if a.headroom_v <= 0:
+            template = ("{leds}: no headroom at the low corner. The supply can fall to {supply_min} but the "
+                        "string needs {string} at maximum Vf (headroom {headroom}), so {led} drops to {low} "
+                        "against {nominal} nominal")
+        else:
+            template = ("{leds}: at the low corner ({supply_min} supply, maximum Vf) {led} drops to {low}, "
+                        "{ratio} of its {nominal} nominal; the ballast has only {headroom} to work with")
+        need = string_v + 1.0
+        hint = (f"use a supply of at least {quantity(need, 'V')} (1 V across the ballast at the low corner), "
+                "fewer LEDs in series, a lower-Vf LED, or a constant-current driver")
+        yield ctx.finding(a, severity, template, values=values, hint=hint, leds=ids(a.circuit.leds), led=low.id,
+                          assumed=tuple(x for r in a.leds for x in led_assumptions(r)) + tuple(circuit_assumptions(a)))
+
+
+RULE = Rule(
+    id="supply-headroom",
+    summary="supply barely above the string's forward voltage: current collapses at the low corner",
+    severity=Severity.ERROR,
+    check=check,
+    options=(Option("min_ratio", 0.5, "fraction of nominal", "least low-corner current before a warning"),
+             Option("dead_ratio", 0.1, "fraction of nominal", "below this the string counts as not conducting")),
+    doc=__doc__,
+)

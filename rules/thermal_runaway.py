@@ -1,0 +1,66 @@
+"""thermal-runaway: an electro-thermal loop that amplifies heating in a voltage-driven LED circuit.
+
+What it flags
+    A voltage-driven LED string or bank whose electro-thermal loop gain G reaches 0.5: a
+    rise in junction temperature lowers Vf, which raises the current, which heats the
+    junction further. G ≥ 1 is runaway; 0.5 already doubles every thermal disturbance.
+
+Why it matters
+    Power LEDs on a stiff rail with a small ballast, and LEDs sharing a resistor (one LED
+    heats, hogs current from the others, heats more), can creep up in current over minutes
+    until they fail. A bigger ballast drop or a current driver breaks the loop.
+
+Example
+    A 1 W white LED (Rth 30 K/W) from +3V3 through 0.5 Ω: G ≈ 0.2, fine; the same LED
+    straight on the rail through its own resistance only: G ≈ 0.3 to 0.6 with hotter parts.
+
+Fix
+    Raise the ballast so its drop is large against the Vf shift (about 1 V for ±10 % over
+    50 K), use a constant-current driver, or improve the LED's heat path (lower Rth).
+
+Formula
+    G = Rth · ∂P/∂Tj at the operating point (the largest eigenvalue of the loop matrix over
+    the LEDs). For one LED through R: G = Rth · |k| · (Vf − I·R) / (R + r_d), k = dVf/dT.
+    The steady-state disturbance is amplified by 1 / (1 − G).
+
+Source
+    Stability criterion dP/dTj < 1/Rth (a textbook example quoted in field-facts §6); the
+    closed form for an LED on a voltage source through R is derived in field-facts §6.
+"""
+
+from __future__ import annotations
+
+from typing import Iterator
+
+from ledlint.findings import Finding, Severity, Value
+from ledlint.registry import Option, Rule, RuleContext
+from ledlint.rules._support import assumed_param, by_evidence, circuit_assumptions, ids
+
+
+def check(ctx: RuleContext) -> Iterator[Finding]:
+    limit = ctx.options["gain_limit"]
+    for a in ctx.analyses:
+        if not a.solved or a.loop_gain is None or a.loop_gain < limit or a.set_current is not None:
+            continue
+        rth_assumed = any(r.params.rth is not None and r.params.rth.assumed for r in a.leds)
+        severity = by_evidence(Severity.WARNING, rth_assumed)
+        amplification = 1 / (1 - a.loop_gain) if a.loop_gain < 1 else float("inf")
+        template = ("{leds}: electro-thermal loop gain {gain} (limit {limit}): a warmer junction lowers Vf, raises "
+                    "the current and heats it further" + (", amplifying any disturbance {amp}×" if a.loop_gain < 1
+                                                           else "; it has no stable operating point"))
+        assumed = [x for r in a.leds for x in assumed_param(f"{r.id} Rth", r.params.rth, "K/W")]
+        yield ctx.finding(a, severity, template, values=(Value("gain", a.loop_gain, "", limit, ">="),),
+                          assumed=tuple(assumed + circuit_assumptions(a)), leds=ids(a.circuit.leds),
+                          limit=f"{limit:g}", amp=f"{amplification:.2g}",
+                          hint="raise the ballast drop (about 1 V), use a constant-current driver, or lower the "
+                               "LED's thermal resistance")
+
+
+RULE = Rule(
+    id="thermal-runaway",
+    summary="electro-thermal loop gain of a voltage-driven string or bank at or above 0.5",
+    severity=Severity.WARNING,
+    check=check,
+    options=(Option("gain_limit", 0.5, "", "loop gain from which to warn"),),
+    doc=__doc__,
+)

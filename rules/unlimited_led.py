@@ -1,0 +1,72 @@
+"""unlimited-led: an LED or string across a voltage source with nothing to limit its current.
+
+What it flags
+    An LED, a string of LEDs or LEDs in parallel connected straight across a supply rail
+    (or from a rail to ground through only switches) with no resistor, current regulator or
+    driver in the path.
+
+Why it matters
+    An LED's current rises exponentially with voltage: across a stiff rail it is set only by
+    the die's few ohms of series resistance and the rail's source impedance. It burns out,
+    or survives on one board and not the next. Strings whose Vf sum "matches" the rail are no
+    better: a 0.1 V shift moves the current by tens of milliamps.
+
+Example
+    A red LED straight from +3V3 to GND: the model gives well over 100 mA. Fixed: 68 Ω in
+    series for about 20 mA at the worst corner.
+
+Fix
+    Add a series resistor (the hint sizes one for 75 % of If_max at the worst corner), or
+    feed the LED from a current-limited driver.
+
+Formula
+    Without a ballast, I ≈ (V − Σ V_j) / Σ R_s: only the LEDs' internal series resistance
+    limits it (Shockley model with series resistance).
+
+Source
+    The Shockley diode equation (field-facts §5c); field-facts §6 ("the same LED straight
+    on a rail (R = 0) ... ±0.1 V of Vf spread moves the current by ±100 mA", derived there).
+"""
+
+from __future__ import annotations
+
+from typing import Iterator
+
+from ledlint.findings import Finding, Severity, Value, quantity
+from ledlint.params import Param
+from ledlint.registry import Rule, RuleContext
+from ledlint.rules._support import circuit_assumptions, ids
+from ledlint.sizing import ballast_for
+
+
+def check(ctx: RuleContext) -> Iterator[Finding]:
+    for a in ctx.analyses:
+        if not a.unlimited:
+            continue
+        c = a.circuit
+        src = c.source.net if c.source else "?"
+        ret = c.ret.net if c.ret else "?"
+        values: tuple[Value, ...] = ()
+        template = "{leds} sit across {src} and {ret} with nothing to limit the current: no resistor, regulator or driver"
+        hint = "add a series resistor sized for the wanted current: R = (V − Vf) / I"
+        if a.solved and a.leds:
+            worst = max(a.leds, key=lambda r: r.current.maximum)
+            values = (Value("model", worst.current.maximum, "A"),)
+            template += "; the model gives up to {model}, set only by the LEDs' internal resistance"
+            limit = worst.params.if_max
+            if isinstance(limit, Param):
+                fix = ballast_for(a, 0.75 * limit.value)
+                if fix:
+                    hint = (f"add {quantity(fix.resistance, 'Ω')} (E24) in series: worst case "
+                            f"{quantity(fix.current_max, 'A')}, at least {quantity(fix.rating, 'W')} rated")
+        yield ctx.finding(a, Severity.ERROR, template, values=values, hint=hint, leds=ids(c.leds), src=src, ret=ret,
+                          assumed=tuple(circuit_assumptions(a)))
+
+
+RULE = Rule(
+    id="unlimited-led",
+    summary="LED or string across a voltage source with nothing to limit its current",
+    severity=Severity.ERROR,
+    check=check,
+    doc=__doc__,
+)
