@@ -1,21 +1,27 @@
-"""Command line: `ledlint check PATH...` and friends. Parses options, runs the library, prints."""
+"""Command line: `ledlint check PATH...`, `rules`, `explain ID`. Parses options, runs the library, prints."""
 
 from __future__ import annotations
 
 import argparse
 import glob
-import json
+import os
 import sys
+import tempfile
 from pathlib import Path
-from typing import Sequence
+from typing import Callable, Sequence
 
 from ledlint import __version__
 from ledlint.errors import LedlintError
-from ledlint.model import Netlist
-from ledlint.parts import Kind, classify
-from ledlint.reader import read_netlist
+from ledlint.registry import load_rules, rule_doc
+from ledlint.report import json_doc, text
+from ledlint.run import FAIL_LEVELS, RunResult, check
 
 EXIT_CLEAN, EXIT_FINDINGS, EXIT_BAD_INPUT = 0, 1, 2
+
+FORMATS: dict[str, Callable[..., str]] = {
+    "text": text.render,
+    "json": json_doc.render,
+}
 
 
 def find_netlists(paths: Sequence[str]) -> list[Path]:
@@ -38,59 +44,120 @@ def find_netlists(paths: Sequence[str]) -> list[Path]:
     return list(dict.fromkeys(found))
 
 
-def inventory(netlist: Netlist) -> dict[str, object]:
-    kinds = [classify(c) for c in netlist.components]
-    return {
-        "path": netlist.path,
-        "version": netlist.version,
-        "tool": netlist.tool,
-        "components": len(netlist.components),
-        "nets": len(netlist.nets),
-        "leds": sum(k in (Kind.LED, Kind.LED_ADDRESSABLE) for k in kinds),
-    }
-
-
-def _build_parser() -> argparse.ArgumentParser:
+def _parser() -> argparse.ArgumentParser:
     parser = argparse.ArgumentParser(
-        prog="ledlint",
-        description="Design-rule checks for the LED circuits in KiCad schematic netlists.",
-    )
+        prog="ledlint", description="Design-rule checks for the LED circuits in KiCad schematic netlists.")
     parser.add_argument("--version", action="version", version=f"ledlint {__version__}")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND")
-    check = sub.add_parser("check", help="check netlist files or folders of them")
-    check.add_argument("paths", nargs="+", metavar="PATH", help="a .net file, a folder or a glob")
-    check.add_argument("--format", choices=("text", "json"), default="text", help="report format (default text)")
+    c = sub.add_parser("check", help="check netlist files or folders of them")
+    c.add_argument("paths", nargs="+", metavar="PATH", help="a .net file, a folder or a glob")
+    c.add_argument("--format", choices=sorted(FORMATS), default="text", help="report format (default text)")
+    c.add_argument("--circuits", action="store_true", help="add a table of every circuit's operating point")
+    c.add_argument("--fail-on", choices=FAIL_LEVELS, default="error",
+                   help="exit 1 when a finding at or above this severity remains (default error)")
+    c.add_argument("--config", metavar="FILE", help="use this ledlint.toml instead of searching for one")
+    c.add_argument("--output", "-o", metavar="FILE", help="write the report to FILE (written whole, or not at all)")
+    r = sub.add_parser("rules", help="list the rules")
+    r.add_argument("--format", choices=("text", "json"), default="text")
+    e = sub.add_parser("explain", help="print a rule's documentation")
+    e.add_argument("rule", metavar="RULE")
     return parser
 
 
+def write_whole(out: str, destination: str | None) -> None:
+    """Write all of a report or none of it: to a temporary file first, then renamed into place."""
+    if destination is None:
+        sys.stdout.write(out)
+        sys.stdout.flush()
+        return
+    target = Path(destination)
+    fd, tmp = tempfile.mkstemp(dir=target.parent if str(target.parent) else ".", prefix=".ledlint-")
+    try:
+        with os.fdopen(fd, "w", encoding="utf-8") as fh:
+            fh.write(out)
+        os.replace(tmp, target)
+    except BaseException:
+        Path(tmp).unlink(missing_ok=True)
+        raise
+
+
+def _progress() -> Callable[[int, int], None] | None:
+    if not sys.stderr.isatty():
+        return None
+    from rich.progress import Progress
+
+    bar = Progress(transient=True)
+    task = None
+
+    def update(done: int, total: int) -> None:
+        nonlocal task
+        if total < 4:
+            return
+        if task is None:
+            bar.start()
+            task = bar.add_task("checking", total=total)
+        bar.update(task, completed=done)
+        if done == total:
+            bar.stop()
+
+    return update
+
+
+def _render(fmt: str, result: RunResult, args: argparse.Namespace) -> str:
+    if fmt == "text":
+        color = args.output is None and sys.stdout.isatty() and "NO_COLOR" not in os.environ
+        width = os.get_terminal_size().columns if color else 100
+        return text.render(result, circuits=args.circuits, color=color, width=width)
+    return FORMATS[fmt](result)
+
+
+def cmd_check(args: argparse.Namespace) -> int:
+    result = check(find_netlists(args.paths), config_path=args.config, progress=_progress())
+    write_whole(_render(args.format, result, args), args.output)
+    return EXIT_FINDINGS if result.failed(args.fail_on) else EXIT_CLEAN
+
+
+def cmd_rules(args: argparse.Namespace) -> int:
+    rules = load_rules()
+    if args.format == "json":
+        import json
+
+        sys.stdout.write(json.dumps([rule_doc(r) for r in rules], indent=2, ensure_ascii=False) + "\n")
+    else:
+        width = max(len(r.id) for r in rules)
+        for r in rules:
+            sys.stdout.write(f"{r.id:{width}}  {r.severity.value:7}  {r.summary}\n")
+    return EXIT_CLEAN
+
+
+def cmd_explain(args: argparse.Namespace) -> int:
+    rules = {r.id: r for r in load_rules()}
+    if args.rule not in rules:
+        from ledlint.config import suggest
+
+        raise LedlintError(f"no rule {args.rule!r}{suggest(args.rule, sorted(rules))}")
+    r = rules[args.rule]
+    options = "".join(f"\n    {o.name} = {o.default:g} ({o.unit}): {o.doc}" for o in r.options)
+    sys.stdout.write(r.doc.strip() + "\n\nDefault severity: " + r.severity.value
+                     + (f"\nOptions ([rules.{r.id}] in ledlint.toml):{options}" if options else "") + "\n")
+    return EXIT_CLEAN
+
+
+COMMANDS: dict[str, Callable[[argparse.Namespace], int]] = {
+    "check": cmd_check, "rules": cmd_rules, "explain": cmd_explain,
+}
+
+
 def main(argv: Sequence[str] | None = None) -> int:
-    parser = _build_parser()
+    parser = _parser()
     args = parser.parse_args(argv)
     if args.command is None:
         parser.print_help(sys.stderr)
         return EXIT_BAD_INPUT
     try:
-        paths = find_netlists(args.paths)
-        netlists, errors = [], []
-        for path in paths:
-            try:
-                netlists.append(read_netlist(path))
-            except LedlintError as exc:
-                errors.append(exc)
-        if errors:
-            for exc in errors:
-                print(str(exc), file=sys.stderr)
-            return EXIT_BAD_INPUT
+        return COMMANDS[args.command](args)
     except LedlintError as exc:
         print(str(exc), file=sys.stderr)
         return EXIT_BAD_INPUT
-    files = [inventory(n) for n in netlists]
-    if args.format == "json":
-        out = json.dumps({"schema": 1, "tool": {"name": "ledlint", "version": __version__},
-                          "files": files, "findings": [], "circuits": []}, indent=2, ensure_ascii=False)
-    else:
-        out = "\n".join(
-            f"{f['path']}: {f['components']} components, {f['nets']} nets, {f['leds']} LEDs "
-            f"(netlist version {f['version']}, {f['tool'] or 'unknown tool'})" for f in files)
-    sys.stdout.write(out + "\n")
-    return EXIT_CLEAN
+    except BrokenPipeError:
+        return EXIT_CLEAN

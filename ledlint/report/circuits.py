@@ -1,0 +1,65 @@
+"""Circuit rows: each circuit's operating point as plain values, for every report format."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from ledlint.analyse import Analysis
+from ledlint.recognise import CircuitKind
+from ledlint.run import RunResult
+from ledlint.topology import ElementKind
+
+_NOT_ANALYSED = {
+    CircuitKind.ADDRESSABLE: "not analysed electrically: each LED sets its own current",
+    CircuitKind.MULTIPLEXED: "not analysed electrically yet: multiplexed",
+    CircuitKind.NOT_FITTED: "not fitted",
+}
+
+
+@dataclass(frozen=True)
+class CircuitRow:
+    file: str
+    id: str
+    kind: str
+    leds: tuple[str, ...]
+    ballast: tuple[str, ...]
+    supply_net: str | None
+    return_net: str | None
+    current: tuple[float, float, float] | None  # per LED: nominal, least, most (A)
+    resistor_power_w: float | None
+    headroom_v: float | None
+    analysed: bool
+    note: str  # why it was not analysed, or what it rests on
+
+    def as_json(self) -> dict[str, object]:
+        return {
+            "file": self.file, "id": self.id, "kind": self.kind, "leds": list(self.leds),
+            "ballast": list(self.ballast), "supply_net": self.supply_net, "return_net": self.return_net,
+            "current_a": (None if self.current is None else
+                          {"nominal": self.current[0], "min": self.current[1], "max": self.current[2]}),
+            "resistor_power_w": self.resistor_power_w, "headroom_v": self.headroom_v,
+            "analysed": self.analysed, "note": self.note,
+        }
+
+
+def row(path: str, a: Analysis) -> CircuitRow:
+    c = a.circuit
+    ballast = tuple(dict.fromkeys([e.ref for e in c.elements if e.kind is ElementKind.RESISTOR]
+                                  + [r.ref for r in a.resistors if r.role == "sense"]))
+    current = None
+    if a.solved and a.leds and not c.blocked:
+        nominal = a.nominal_current if a.nominal_current is not None else a.leds[0].current.nominal
+        current = (nominal, min(r.current.minimum for r in a.leds), max(r.current.maximum for r in a.leds))
+    power = max((r.power_max for r in a.resistors), default=None) if a.solved else None
+    note = _NOT_ANALYSED.get(c.kind, c.reason if c.kind is CircuitKind.UNRECOGNISED else "")
+    if c.blocked:
+        note = f"never conducts: {c.blocked}"
+    elif not a.solved and a.missing:
+        note = "not computed: " + "; ".join(dict.fromkeys(m.name for m in a.missing)) + " unknown"
+    return CircuitRow(path, c.id, c.kind.value, c.leds, ballast, c.source.net if c.source else None,
+                      c.ret.net if c.ret else None, current, power, a.headroom_v if a.solved else None,
+                      a.solved, note)
+
+
+def rows(result: RunResult) -> list[CircuitRow]:
+    return [row(f.path, a) for f in result.files for a in f.board.analyses]

@@ -1,0 +1,101 @@
+"""Terminal report: findings grouped by file, most severe first, each with parts, nets, numbers and fix."""
+
+from __future__ import annotations
+
+import io
+
+from rich.console import Console
+from rich.markup import escape
+from rich.table import Table
+
+from ledlint.findings import Finding, Severity, quantity
+from ledlint.report.circuits import CircuitRow, row
+from ledlint.run import FileResult, RunResult
+
+_STYLE = {Severity.ERROR: "bold red", Severity.WARNING: "bold yellow", Severity.INFO: "cyan"}
+SAFETY = ("Mains and high-voltage LED circuits can kill. These findings are a review aid, not a safety "
+          "assessment: follow the applicable safety standards and local codes, and have the design "
+          "reviewed by a qualified person.")
+
+
+def _finding(console: Console, f: Finding) -> None:
+    grid = Table.grid(padding=(0, 1))
+    grid.add_column(width=7, no_wrap=True, justify="right")
+    grid.add_column()
+    where = f"line {f.line}" if f.line else ""
+    refs = ", ".join(f.refs[:8]) + (f" … ({len(f.refs)} parts)" if len(f.refs) > 8 else "")
+    head = " · ".join(x for x in (f.rule, where, refs, ("nets " + ", ".join(f.nets)) if f.nets else "") if x)
+    grid.add_row(f"[{_STYLE[f.severity]}]{f.severity.value.upper()}[/]", f"[bold]{escape(head)}[/]")
+    grid.add_row("", escape(f.message))
+    if f.hint:
+        grid.add_row("[green]fix[/]", escape(f.hint))
+    if f.assumed:
+        shown = list(f.assumed[:5]) + ([f"… and {len(f.assumed) - 5} more (see --format json)"]
+                                       if len(f.assumed) > 5 else [])
+        grid.add_row("[dim]assumed[/]", "[dim]" + escape("; ".join(shown)) + "[/]")
+    if f.waived:
+        grid.add_row("[dim]waived[/]", "[dim]" + escape(f.waived) + "[/]")
+    console.print(grid)
+
+
+def _amps(x: float | None) -> str:
+    return "—" if x is None else quantity(x, "A")
+
+
+def _short(text: str, limit: int = 48) -> str:
+    return text if len(text) <= limit else text[: limit - 1] + "…"
+
+
+def _circuit_table(rows: list[CircuitRow]) -> Table:
+    table = Table(show_edge=False, pad_edge=False, box=None, header_style="bold")
+    for name in ("circuit", "kind", "LEDs", "supply → return", "ballast", "I nom", "I range", "P max", "headroom"):
+        table.add_column(name, no_wrap=name in ("circuit", "I nom", "I range", "P max", "headroom"))
+    for r in rows:
+        leds = ", ".join(r.leds) if len(r.leds) <= 3 else f"{r.leds[0]} … ({len(r.leds)})"
+        if r.current is None:
+            nom, rng = "—", escape(_short(r.note)) if r.note else "—"
+        else:
+            nom, rng = _amps(r.current[0]), f"{_amps(r.current[1])} – {_amps(r.current[2])}"
+        table.add_row(r.id, r.kind, leds, escape(f"{r.supply_net or '?'} → {r.return_net or '?'}"),
+                      ", ".join(r.ballast) or "—", nom, rng,
+                      "—" if r.resistor_power_w is None else quantity(r.resistor_power_w, "W"),
+                      "—" if r.headroom_v is None else quantity(r.headroom_v, "V"))
+    return table
+
+
+def _file(console: Console, fr: FileResult, circuits: bool) -> None:
+    n = fr.netlist
+    analysed = sum(a.solved for a in fr.board.analyses)
+    leds = sum(len(c.leds) for c in fr.board.circuits)
+    console.print(f"[bold]{escape(fr.path)}[/]  {leds} LED(s) in {len(fr.board.circuits)} circuit(s), "
+                  f"{analysed} analysed · {escape(n.tool or 'unknown tool')}")
+    for note in n.notes:
+        console.print(f"  [dim]reader note, line {note.line}: {escape(note.message)}[/]")
+    for f in fr.findings:
+        _finding(console, f)
+    if fr.waived:
+        console.print(f"  [dim]{len(fr.waived)} finding(s) waived[/]")
+    if not fr.findings:
+        console.print("  no findings")
+    if circuits and fr.board.analyses:
+        console.print(_circuit_table([row(fr.path, a) for a in fr.board.analyses]))
+    for c in fr.board.cautions:
+        console.print(f"[bold red]CAUTION[/] {escape(c)}. {SAFETY}")
+    console.print()
+
+
+def render(result: RunResult, *, circuits: bool = False, color: bool = False, width: int = 100) -> str:
+    buf = io.StringIO()
+    console = Console(file=buf, width=width, force_terminal=color, no_color=not color, highlight=False,
+                      emoji=False, soft_wrap=False)
+    for fr in result.files:
+        _file(console, fr, circuits)
+    for w in result.unused_waivers:
+        console.print(f"[yellow]unused waiver[/] {escape(w.rule)} for {escape(w.ref or w.fingerprint)} "
+                      f"({escape(w.origin)}): it silences nothing")
+    counts = result.counts()
+    total = sum(len(fr.board.circuits) for fr in result.files)
+    analysed = sum(a.solved for fr in result.files for a in fr.board.analyses)
+    console.print(f"{len(result.files)} file(s) · {total} circuit(s), {analysed} analysed · "
+                  f"{counts['error']} error(s) · {counts['warning']} warning(s) · {counts['info']} info")
+    return buf.getvalue()

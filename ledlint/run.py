@@ -1,0 +1,165 @@
+"""One check run: netlists → configuration → analysis → rules → waivers. The library's entry point."""
+
+from __future__ import annotations
+
+import os
+from concurrent.futures import ProcessPoolExecutor
+from dataclasses import dataclass, replace
+from pathlib import Path
+from typing import Callable, Sequence
+
+from ledlint import config as configuration
+from ledlint.analyse import BoardAnalysis, analyse
+from ledlint.config import WAIVER_FIELD, Config, Waiver
+from ledlint.errors import ConfigError, LedlintError
+from ledlint.findings import Finding, Severity
+from ledlint.model import Netlist
+from ledlint.reader import read_netlist
+from ledlint.registry import Rule, RuleSettings, load_rules, run_rules, settings
+
+FAIL_LEVELS = ("error", "warning", "info", "never")
+_PARALLEL_FROM = 8  # files; below this, starting worker processes costs more than it saves
+
+
+@dataclass(frozen=True)
+class FileResult:
+    path: str  # as the user named it
+    netlist: Netlist
+    board: BoardAnalysis
+    findings: tuple[Finding, ...]  # active, most severe first
+    waived: tuple[Finding, ...]  # silenced by a waiver, with its reason
+    config_path: str
+
+
+@dataclass(frozen=True)
+class RunResult:
+    files: tuple[FileResult, ...]
+    rules: tuple[Rule, ...]
+    unused_waivers: tuple[Waiver, ...]
+
+    @property
+    def findings(self) -> tuple[Finding, ...]:
+        return tuple(f for r in self.files for f in r.findings)
+
+    def counts(self) -> dict[str, int]:
+        out = {s.value: 0 for s in Severity}
+        for f in self.findings:
+            out[f.severity.value] += 1
+        return out
+
+    def failed(self, fail_on: str) -> bool:
+        if fail_on == "never":
+            return False
+        threshold = Severity(fail_on).rank
+        return any(f.severity.rank >= threshold for f in self.findings)
+
+
+def field_waivers(netlist: Netlist, rule_ids: set[str]) -> list[Waiver]:
+    """Waivers written on parts: a field `ledlint_waive` = "rule-id[, rule-id]: reason"."""
+    out = []
+    for comp in netlist.components:
+        text = comp.field(WAIVER_FIELD)
+        if text is None:
+            continue
+        rules, sep, reason = text.partition(":")
+        where = f"field {WAIVER_FIELD} on {comp.ref} ({netlist.path}, line {comp.line})"
+        if not sep or not reason.strip():
+            raise ConfigError(f"{where}: write 'rule-id: reason'; a waiver needs a reason", netlist.path, comp.line)
+        for rid in (r.strip() for r in rules.split(",") if r.strip()):
+            if rid not in rule_ids:
+                raise ConfigError(f"{where}: no rule {rid!r}{configuration.suggest(rid, sorted(rule_ids))}",
+                                  netlist.path, comp.line)
+            out.append(Waiver(rid, reason.strip(), ref=comp.ref, origin=where))
+    return out
+
+
+def _matches(w: Waiver, f: Finding) -> bool:
+    return w.rule == f.rule and ((bool(w.ref) and w.ref in f.refs) or (bool(w.fingerprint) and
+                                                                       w.fingerprint == f.fingerprint))
+
+
+def apply_waivers(findings: list[Finding], waivers: list[Waiver]) -> tuple[list[Finding], list[Finding], set[int]]:
+    """Split findings into active and waived; also the indices of waivers that matched."""
+    active, waived, used = [], [], set()
+    for f in findings:
+        hit = next((i for i, w in enumerate(waivers) if _matches(w, f)), None)
+        if hit is None:
+            active.append(f)
+        else:
+            used.add(hit)
+            waived.append(replace(f, waived=waivers[hit].reason))
+    return active, waived, used
+
+
+@dataclass(frozen=True)
+class _Job:
+    path: str
+    config: Config
+    rule_settings: RuleSettings
+
+
+def _check_one(job: _Job) -> tuple[FileResult, list[Waiver], set[int]]:
+    rules = load_rules()
+    netlist = read_netlist(job.path)
+    board = analyse(netlist, job.config)
+    findings = run_rules(rules, board, job.path, job.rule_settings)
+    own = field_waivers(netlist, {r.id for r in rules})
+    waivers = list(job.config.waivers) + own
+    active, waived, used = apply_waivers(findings, waivers)
+    unused_own = [w for i, w in enumerate(waivers) if i >= len(job.config.waivers) and i not in used]
+    used_config = {i for i in used if i < len(job.config.waivers)}
+    return (FileResult(job.path, netlist, board, tuple(active), tuple(waived), job.config.path),
+            unused_own, used_config)
+
+
+def check(paths: Sequence[str | Path], *, config_path: str | None = None,
+          progress: Callable[[int, int], None] | None = None) -> RunResult:
+    """Check netlist files. Raises LedlintError (with every bad file named) on bad input."""
+    rules = load_rules()
+    configs: dict[str, Config] = {}
+    jobs = []
+    for path in paths:
+        cfg_file = config_path or (str(p) if (p := configuration.discover(path)) else "")
+        if cfg_file not in configs:
+            configs[cfg_file] = configuration.load(cfg_file) if cfg_file else Config()
+        cfg = configs[cfg_file]
+        jobs.append(_Job(str(path), cfg, settings(rules, cfg)))
+    results: list[tuple[FileResult, list[Waiver], set[int]] | LedlintError] = []
+    if len(jobs) >= _PARALLEL_FROM and (os.cpu_count() or 1) > 1:
+        with ProcessPoolExecutor() as pool:
+            for i, r in enumerate(pool.map(_safe_check, jobs), start=1):
+                results.append(r)
+                if progress:
+                    progress(i, len(jobs))
+    else:
+        for i, job in enumerate(jobs, start=1):
+            results.append(_safe_check(job))
+            if progress:
+                progress(i, len(jobs))
+    errors = [r for r in results if isinstance(r, LedlintError)]
+    if errors:
+        raise BadInput(errors)
+    done = [r for r in results if not isinstance(r, LedlintError)]
+    unused: list[Waiver] = [w for _, own, _ in done for w in own]
+    for cfg in configs.values():
+        used: set[int] = set().union(*(u for (res, _, u) in done if res.config_path == cfg.path))
+        unused += [w for i, w in enumerate(cfg.waivers) if i not in used]
+    return RunResult(tuple(r for r, _, _ in done), rules, tuple(unused))
+
+
+def _safe_check(job: _Job) -> tuple[FileResult, list[Waiver], set[int]] | LedlintError:
+    try:
+        return _check_one(job)
+    except LedlintError as exc:
+        return exc
+
+
+class BadInput(LedlintError):
+    """Several input problems at once: each file that could not be read or configured."""
+
+    def __init__(self, errors: list[LedlintError]) -> None:
+        super().__init__("; ".join(str(e) for e in errors))
+        self.errors = errors
+
+    def __str__(self) -> str:
+        return "\n".join(str(e) for e in self.errors)
