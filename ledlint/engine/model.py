@@ -52,10 +52,6 @@ class Range:
         spread = abs(_finite("nominal", nominal)) * rel
         return cls(nominal, nominal - spread, nominal + spread)
 
-    @property
-    def is_fixed(self) -> bool:
-        return self.minimum == self.maximum
-
 
 def _non_negative(name: str, r: Range) -> None:
     if r.minimum < 0:

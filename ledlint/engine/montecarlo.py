@@ -73,7 +73,7 @@ def _uniform(rng: np.random.Generator, low: float | list[float], high: float | l
 
 def monte_carlo(circuit: Circuit, samples: int = 10_000, seed: int = 0) -> MonteCarlo:
     """Draw ``samples`` cases uniformly within every tolerance and solve them (deterministic per seed)."""
-    if isinstance(samples, bool) or not isinstance(samples, int) or samples < 1:
+    if isinstance(samples, bool) or not isinstance(samples, (int, np.integer)) or samples < 1:
         raise ModelError(f"samples must be a positive integer, got {samples!r}")
     rng = np.random.default_rng(seed)
     leds, branches = circuit.leds, circuit.branches
@@ -96,6 +96,6 @@ def monte_carlo(circuit: Circuit, samples: int = 10_000, seed: int = 0) -> Monte
     mean = current.mean(axis=1)
     with np.errstate(divide="ignore", invalid="ignore"):
         spread = np.where(mean > 0, (current.max(axis=1) - current.min(axis=1)) / mean, np.nan)
-    return MonteCarlo(samples=samples, seed=seed, cases=cases, solution=solution,
+    return MonteCarlo(samples=int(samples), seed=seed, cases=cases, solution=solution,
                       current=Summary.of(current), spread=_frozen(spread),
                       spread_summary=Summary.of(spread))

@@ -34,6 +34,8 @@ from ledlint.engine.model import Circuit, ModelError
 Array = NDArray[np.float64]
 
 _FAST_STEPS = 60
+# Chord of I(V) from i_test/10 to i_test against the tangent at i_test: ln 10 / 0.9.
+_CHORD = float(np.log(10.0) / 0.9)
 _OUTER_STEPS = 400
 _INNER_STEPS = 200
 
@@ -221,12 +223,18 @@ class _Work:
         return _Work(**{f.name: getattr(self, f.name)[keep] for f in fields(self)})
 
 
-def _fast(setup: Setup, path: _Path, jn: Junctions, vj: Array) -> tuple[State, NDArray[np.bool_]]:
+def _fast(setup: Setup, path: _Path, jn: Junctions, vj: Array,
+          chord: bool) -> tuple[State, NDArray[np.bool_]]:
     """Limited Newton steps on the linearised bank; returns the state and which cases settled.
 
     A case leaves the iteration once its step is below tolerance; the working arrays shrink
     when a quarter of the cases still in them are done, so stragglers cost little. The
     arithmetic runs in place: at 10⁶ junctions, memory traffic is the cost.
+
+    With ``chord`` (a cold start at the test current) the first step linearises each LED by
+    its chord over the decade below i_test rather than its tangent: the currents of a bank
+    spread over about that decade, and the tangent's small resistance makes the first step
+    drive the high-Vf LEDs to near zero, from where they climb back a step at a time.
     """
     topo, current_driven = setup.topology, setup.circuit.current_driven
     out_vj, out_i, out_v = np.empty_like(vj), np.empty_like(path.r_branch), np.empty(vj.shape[0])
@@ -245,6 +253,8 @@ def _fast(setup: Setup, path: _Path, jn: Junctions, vj: Array) -> tuple[State, N
             rd = e  # reused: 1/gd = a/(Is·exp(Vj/a) + GMIN·a)
             rd += w.gmin_a
             np.divide(w.a, rd, out=rd)
+            if chord and step_number == 0:
+                rd *= _CHORD
             knee = np.multiply(f, rd, out=other)
             np.subtract(vj, knee, out=knee)
             knee = topo.per_branch(knee)
@@ -375,8 +385,9 @@ def start_voltages(table: LedTable, jn: Junctions) -> Array:
 def solve_state(setup: Setup, cases: Cases, jn: Junctions, start: Array | None = None) -> State:
     """Solve every case at the junction parameters ``jn``, starting from junction voltages ``start``."""
     path = _Path.of(setup, cases)
-    state, settled = _fast(setup, path, jn, start_voltages(setup.table, jn)
-                           if start is None else start)
+    cold = start is None
+    state, settled = _fast(setup, path, jn, start_voltages(setup.table, jn) if cold else start,
+                           chord=cold)
     if settled.all():
         return state
     redo = ~settled
@@ -455,10 +466,6 @@ class Solution:
             "vj": state.vj,
         }
         return cls(**{name: _read_only(np.asarray(x)) for name, x in values.items()})
-
-    @property
-    def size(self) -> int:
-        return int(self.node_voltage.shape[0])
 
     def point(self, s: int) -> OperatingPoint:
         """The operating point of case ``s``."""

@@ -49,13 +49,14 @@ def heated(setup: Setup, cases: Cases, start: Array | None = None) -> Solution:
         if np.all(settled | runaway):
             break
         lin = Linearised.at(setup, cases, jn, state)
+        slope = jn.vf_slope(state.vj)  # dVj/dTj at constant current
         # P ≥ 0, so the steady state lies between the ambient and the ceiling.
-        new = np.clip(tj + _newton_step(setup, jn, state, lin, heat - tj), ambient, TJ_CEILING)
-        vj = state.vj + _predicted_shift(setup, jn, state, lin, new - tj)
+        new = np.clip(tj + _newton_step(setup, state, lin, slope, heat - tj), ambient, TJ_CEILING)
+        vj = state.vj + _predicted_shift(setup, lin, slope * (new - tj))
     return Solution.of(setup, cases, state, tj, settled)
 
 
-def _newton_step(setup: Setup, jn: Junctions, state: State, lin: Linearised,
+def _newton_step(setup: Setup, state: State, lin: Linearised, slope: Array,
                  residual: Array) -> Array:
     """Newton step on Tj for Tj = Ta + Rth·P(Tj); the plain step ``residual`` where unsafe.
 
@@ -69,7 +70,6 @@ def _newton_step(setup: Setup, jn: Junctions, state: State, lin: Linearised,
     """
     topo, table = setup.topology, setup.table
     i = topo.to_leds(state.branch_current)
-    slope = jn.vf_slope(state.vj)
     # δP_j = i·s_j·δT_j + beta_j·δI_k  (P = (Vj + Rs·I)·I, δVj = s·δT + r_d·δI)
     beta = i * lin.rd + state.vj + 2.0 * table.r_s * i
     u = table.rth * beta * topo.to_leds(lin.y)
@@ -91,12 +91,11 @@ def _newton_step(setup: Setup, jn: Junctions, state: State, lin: Linearised,
     return np.where(safe[:, None], step, residual)
 
 
-def _predicted_shift(setup: Setup, jn: Junctions, state: State, lin: Linearised,
-                     step: Array) -> Array:
-    """The junction-voltage change a temperature step makes in the linearised bank: the
-    next solve's starting point, a few Newton steps nearer than the last solution."""
+def _predicted_shift(setup: Setup, lin: Linearised, inserted: Array) -> Array:
+    """The junction-voltage change that voltages ``inserted`` at the junctions (a temperature
+    step times dVj/dTj) make in the linearised bank: the next solve starts there, a few
+    Newton steps nearer than the last solution."""
     topo = setup.topology
-    inserted = jn.vf_slope(state.vj) * step
     e = topo.per_branch(inserted)
     d_current = lin.y * (np.einsum("ij,ij->i", lin.share, e)[:, None] - e)
     return inserted + lin.rd * topo.to_leds(d_current)
