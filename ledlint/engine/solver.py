@@ -385,9 +385,10 @@ def start_voltages(table: LedTable, jn: Junctions) -> Array:
 def solve_state(setup: Setup, cases: Cases, jn: Junctions, start: Array | None = None) -> State:
     """Solve every case at the junction parameters ``jn``, starting from junction voltages ``start``."""
     path = _Path.of(setup, cases)
-    cold = start is None
-    state, settled = _fast(setup, path, jn, start_voltages(setup.table, jn) if cold else start,
-                           chord=cold)
+    if start is None:
+        state, settled = _fast(setup, path, jn, start_voltages(setup.table, jn), chord=True)
+    else:
+        state, settled = _fast(setup, path, jn, start, chord=False)
     if settled.all():
         return state
     redo = ~settled
