@@ -12,9 +12,9 @@ from typing import Callable, Sequence
 
 from ledlint import __version__
 from ledlint.errors import LedlintError
-from ledlint.registry import load_rules, rule_doc
+from ledlint.registry import rule_doc
 from ledlint.report import json_doc, text
-from ledlint.run import FAIL_LEVELS, RunResult, check
+from ledlint.run import FAIL_LEVELS, RunResult, check, load_rules
 
 EXIT_CLEAN, EXIT_FINDINGS, EXIT_BAD_INPUT = 0, 1, 2
 

@@ -1,17 +1,14 @@
-"""Rule registry: the built-in rules (ledlint.rules) plus the `ledlint.rules` entry-point group.
+"""Rule registry: what a rule is, what it sees, and running a set of rules on one board.
 
 A rule is data: an id (kebab-case), a summary, a default severity, options with defaults and
-units, the check function, and its documentation (its module's docstring). Duplicate or
-malformed ids fail loudly at load time.
+units, the check function, and its documentation (its module's docstring). Loading the
+built-in rules and plugins happens in ledlint.run, to the right of the rules themselves.
 """
 
 from __future__ import annotations
 
-import importlib
-import pkgutil
 import re
 from dataclasses import dataclass, field, replace
-from importlib.metadata import entry_points
 from ledlint.frozen import FrozenMap
 from typing import Any, Callable, Iterator, Mapping
 
@@ -21,7 +18,6 @@ from ledlint.errors import ConfigError, LedlintError
 from ledlint.findings import Finding, Severity, Value, render
 
 _ID = re.compile(r"^[a-z][a-z0-9]*(-[a-z0-9]+)*$")
-ENTRY_POINT_GROUP = "ledlint.rules"
 DOC_SECTIONS = ("What it flags", "Why it matters", "Example", "Fix", "Formula", "Source")
 
 
@@ -70,35 +66,14 @@ class RuleContext:
                        assumed=tuple(dict.fromkeys(assumed)), hint=hint, circuit=c.id, template=template)
 
 
-def _validate(rule: Rule, where: str) -> None:
+def validate(rule: Rule, where: str) -> None:
+    """A rule is well formed: a Rule, a kebab-case id, a summary and its documentation."""
     if not isinstance(rule, Rule):
         raise LedlintError(f"{where}: RULE is not a ledlint Rule")
     if not _ID.match(rule.id):
         raise LedlintError(f"{where}: rule id {rule.id!r} is not kebab-case")
     if not rule.summary or not rule.doc:
         raise LedlintError(f"{where}: rule {rule.id} needs a summary and documentation")
-
-
-def load_rules(include_plugins: bool = True) -> tuple[Rule, ...]:
-    """Every rule, built-in first, in id order within each group."""
-    import ledlint.rules as builtin
-
-    found: dict[str, tuple[Rule, str]] = {}
-
-    def add(rule: Rule, where: str) -> None:
-        _validate(rule, where)
-        if rule.id in found:
-            raise LedlintError(f"{where}: rule id {rule.id!r} is already defined by {found[rule.id][1]}")
-        found[rule.id] = (rule, where)
-
-    for mod in sorted(pkgutil.iter_modules(builtin.__path__), key=lambda m: m.name):
-        module = importlib.import_module(f"{builtin.__name__}.{mod.name}")
-        if hasattr(module, "RULE"):
-            add(module.RULE, module.__name__)
-    if include_plugins:
-        for ep in sorted(entry_points(group=ENTRY_POINT_GROUP), key=lambda e: e.name):
-            add(ep.load(), f"entry point {ep.name} ({ep.value})")
-    return tuple(r for r, _ in found.values())
 
 
 @dataclass(frozen=True)

@@ -2,9 +2,12 @@
 
 from __future__ import annotations
 
+import importlib
 import os
+import pkgutil
 from concurrent.futures import ProcessPoolExecutor
 from dataclasses import dataclass, replace
+from importlib.metadata import entry_points
 from pathlib import Path
 from typing import Callable, Sequence
 
@@ -15,9 +18,11 @@ from ledlint.errors import ConfigError, LedlintError
 from ledlint.findings import Finding, Severity
 from ledlint.model import Netlist
 from ledlint.reader import read_netlist
-from ledlint.registry import Rule, RuleSettings, load_rules, run_rules, settings
+import ledlint.rules as builtin_rules
+from ledlint.registry import Rule, RuleSettings, run_rules, settings, validate
 
 FAIL_LEVELS = ("error", "warning", "info", "never")
+ENTRY_POINT_GROUP = "ledlint.rules"  # third-party rules: an entry point naming a Rule object
 _PARALLEL_FROM = 8  # files; below this, starting worker processes costs more than it saves
 
 
@@ -52,6 +57,28 @@ class RunResult:
             return False
         threshold = Severity(fail_on).rank
         return any(f.severity.rank >= threshold for f in self.findings)
+
+
+def load_rules(include_plugins: bool = True) -> tuple[Rule, ...]:
+    """The built-in rules (ledlint.rules), then plugins; duplicate or malformed ids fail loudly."""
+    found: dict[str, str] = {}
+    rules: list[Rule] = []
+
+    def add(rule: Rule, where: str) -> None:
+        validate(rule, where)
+        if rule.id in found:
+            raise LedlintError(f"{where}: rule id {rule.id!r} is already defined by {found[rule.id]}")
+        found[rule.id] = where
+        rules.append(rule)
+
+    for mod in sorted(pkgutil.iter_modules(builtin_rules.__path__), key=lambda m: m.name):
+        module = importlib.import_module(f"{builtin_rules.__name__}.{mod.name}")
+        if hasattr(module, "RULE"):
+            add(module.RULE, module.__name__)
+    if include_plugins:
+        for ep in sorted(entry_points(group=ENTRY_POINT_GROUP), key=lambda e: e.name):
+            add(ep.load(), f"entry point {ep.name} ({ep.value})")
+    return tuple(rules)
 
 
 def field_waivers(netlist: Netlist, rule_ids: set[str]) -> list[Waiver]:
