@@ -98,6 +98,8 @@ def colour_from_text(text: str) -> str | None:
     by_wavelength = _wavelength(text)
     if by_wavelength:
         return by_wavelength
+    if re.search(r"yellow[\s-]*green", text, re.I):
+        return "green (GaP)"  # "yellow-green" names one colour, the GaP green
     tokens = {t.lower() for t in _TOKEN.findall(text)}
     found = {name for name, words in _WORDS if tokens & words}
     if len(found) != 1:

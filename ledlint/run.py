@@ -89,14 +89,14 @@ def field_waivers(netlist: Netlist, rule_ids: set[str]) -> list[Waiver]:
         if text is None:
             continue
         rules, sep, reason = text.partition(":")
-        where = f"field {WAIVER_FIELD} on {comp.ref} ({netlist.path}, line {comp.line})"
+        where = f"field {WAIVER_FIELD} on {comp.ref}"
         if not sep or not reason.strip():
             raise ConfigError(f"{where}: write 'rule-id: reason'; a waiver needs a reason", netlist.path, comp.line)
         for rid in (r.strip() for r in rules.split(",") if r.strip()):
             if rid not in rule_ids:
                 raise ConfigError(f"{where}: no rule {rid!r}{configuration.suggest(rid, sorted(rule_ids))}",
                                   netlist.path, comp.line)
-            out.append(Waiver(rid, reason.strip(), ref=comp.ref, origin=where))
+            out.append(Waiver(rid, reason.strip(), ref=comp.ref, origin=f"{where} ({netlist.path}, line {comp.line})"))
     return out
 
 
