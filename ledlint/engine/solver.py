@@ -241,7 +241,8 @@ def _fast(setup: Setup, path: _Path, jn: Junctions, vj: Array,
     settled = np.zeros(vj.shape[0], dtype=bool)
     w = _Work.of(path, jn)
     vj = vj.copy()
-    e, f, other = np.empty_like(vj), np.empty_like(vj), np.empty_like(vj)
+    e, f, other, admittance = (np.empty_like(vj), np.empty_like(vj), np.empty_like(vj),
+                               np.empty_like(w.r_branch))
     with np.errstate(divide="ignore", over="ignore", invalid="ignore"):
         for step_number in range(_FAST_STEPS):
             np.multiply(vj, w.inv_a, out=e)
@@ -258,7 +259,7 @@ def _fast(setup: Setup, path: _Path, jn: Junctions, vj: Array,
             knee = np.multiply(f, rd, out=other)
             np.subtract(vj, knee, out=knee)
             knee = topo.per_branch(knee)
-            y = topo.per_branch(rd) + w.r_branch
+            y = np.add(topo.per_branch(rd), w.r_branch, out=admittance)
             np.reciprocal(y, out=y)
             sy, syc = y.sum(axis=1), np.einsum("ij,ij->i", y, knee)
             if current_driven:
@@ -293,7 +294,8 @@ def _fast(setup: Setup, path: _Path, jn: Junctions, vj: Array,
                 if done.mean() >= 0.25:
                     keep = ~done
                     w, vj = w.take(keep), vj[keep]
-                    e, f, other = np.empty_like(vj), np.empty_like(vj), np.empty_like(vj)
+                    e, f, other, admittance = (np.empty_like(vj), np.empty_like(vj),
+                                               np.empty_like(vj), np.empty_like(w.r_branch))
     finite = np.all(np.isfinite(out_vj), axis=1) & np.isfinite(out_v)
     return State(vj=out_vj, branch_current=out_i, node_voltage=out_v), settled & finite
 
