@@ -596,3 +596,25 @@ def test_split_against_ngspice(tmp_path: Path, strings: int) -> None:
 def test_parallel_strings_finding_lists_each_part_once() -> None:
     for f in of_rule(sample("cabinet-light"), "driver-parallel-strings"):
         assert len(f.refs) == len(set(f.refs)), f.refs
+
+
+def balanced_board(balancing: str) -> Board:
+    """Two red LEDs (1.9-2.1 V) on one 35.7 mA output, each through its own balancing resistor."""
+    b = Board("balanced", "Demo balanced strings")
+    b.add("U1", "CCSINK", "CCSINK", "Package_TO_SOT_SMD:SOT-23-5", {"1": "+12V", "2": "/OUT", "3": "/CS", "4": "GND"},
+          **{**LINEAR, "vref_tolerance": "2%"})
+    b.resistor("R1", "5R6 1%", "/CS", "GND")
+    for s in range(2):
+        b.led(f"D{s + 1}", "red", "+12V", f"/B{s}", Vf="2.0V@20mA", Vf_min="1.9V", Vf_max="2.1V", If_max="30mA")
+        b.resistor(f"R{s + 2}", balancing, f"/B{s}", "/OUT", footprint="Resistor_SMD:R_1206_3216Metric")
+    return b
+
+
+@pytest.mark.xfail(reason="bug: the balancing resistor the hint gives leaves out its own ±5 % tolerance, so "
+                          "with the hinted value fitted the split still exceeds 10 % and the rule still warns",
+                   strict=True)
+def test_hinted_balancing_resistor_balances(tmp_path: Path) -> None:
+    f = only(run(balanced_board("0R"), tmp_path), "driver-parallel-strings")
+    hinted = re.search(r"put ([0-9.]+) Ω \(E24\)", f.hint)
+    assert hinted, f.hint
+    assert not of_rule(run(balanced_board(hinted.group(1)), tmp_path), "driver-parallel-strings")
