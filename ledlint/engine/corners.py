@@ -3,12 +3,13 @@
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import Sequence
 
 import numpy as np
 from numpy.typing import NDArray
 
 from ledlint.engine.model import Circuit, ModelError, Range
-from ledlint.engine.solver import Cases, OperatingPoint, Setup, Solution
+from ledlint.engine.solver import Cases, OperatingPoint, Setup, Solution, concat, groups
 from ledlint.engine.thermal import heated
 
 Array = NDArray[np.float64]
@@ -155,11 +156,7 @@ class Corners:
         return self.solution.branch_resistor_power.max(axis=0)
 
 
-def corners(circuit: Circuit) -> Corners:
-    """Solve the nominal and worst-case corners of ``circuit``, with self-heating where Rth is known."""
-    rows = _rows(circuit)
-    cases = _cases(circuit, rows)
-    solution = heated(Setup.of(circuit), cases)
+def _named(rows: list[_Row], cases: Cases, solution: Solution) -> Corners:
     names = [r.name for r in rows]
     power = solution.ballast_power + solution.branch_resistor_power.sum(axis=1)
     low, high = names.index(_LOW_R), names.index(_HIGH_R)
@@ -168,3 +165,46 @@ def corners(circuit: Circuit) -> Corners:
     rows_kept = np.array([s for s in range(len(names)) if s != drop])
     return Corners(names=tuple(names[s] for s in rows_kept), cases=cases.take(rows_kept),
                    solution=solution.take(rows_kept))
+
+
+def corners_many(circuits: Sequence[Circuit]) -> list[Corners]:
+    """``corners`` of many circuits: one self-heated solve per group of same-shaped circuits."""
+    done: dict[Circuit, Corners] = {}
+    for group in groups(circuits):
+        setup = Setup.of(group[0])
+        rows = [_rows(c) for c in group]
+        cases = [_cases(c, r) for c, r in zip(group, rows)]
+        solution = heated(setup, concat(cases))
+        start = 0
+        for c, r, cs in zip(group, rows, cases):
+            done[c] = _named(r, cs, solution.take(np.arange(start, start + len(r))))
+            start += len(r)
+    return [done[c] for c in circuits]
+
+
+def corners(circuit: Circuit) -> Corners:
+    """Solve the nominal and worst-case corners of ``circuit``, with self-heating where Rth is known."""
+    return corners_many([circuit])[0]
+
+
+def ballast_scan(circuit: Circuit, r_nominal: Sequence[float], rel_min: float,
+                 rel_max: float) -> tuple[Array, Array]:
+    """For each candidate nominal ballast: the largest LED current over the current-raising corners,
+    and the largest ballast dissipation (both ends of the ballast's tolerance at the highest drive).
+
+    A candidate sits at ``r·rel_min`` and ``r·rel_max`` at its tolerance ends. One self-heated
+    solve covers every candidate (fix sizing for hints).
+    """
+    rows = _rows(circuit)
+    keep = [i for i, r in enumerate(rows) if r.name in (MAX_CURRENT, _LOW_R, _HIGH_R)
+            or r.name.startswith("worst_high[")]
+    high_r = np.array([rows[i].name == _HIGH_R for i in keep])
+    base = _cases(circuit, [rows[i] for i in keep])
+    m, n = len(keep), len(r_nominal)
+    ends = np.where(high_r, rel_max, rel_min)
+    r_series = (np.asarray(r_nominal, dtype=float)[:, None] * ends[None, :]).ravel()
+    cases = base.take(np.tile(np.arange(m), n)).replace(r_series=r_series)
+    solution = heated(Setup.of(circuit), cases)
+    current = solution.led_current.reshape(n, m, -1)[:, ~high_r].max(axis=(1, 2))
+    power = solution.ballast_power.reshape(n, m).max(axis=1)
+    return current, power

@@ -22,7 +22,7 @@ monotonically after its first step).
 from __future__ import annotations
 
 from dataclasses import dataclass, fields
-from typing import Any
+from typing import Sequence, Any
 
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
@@ -489,3 +489,21 @@ def solve(circuit: Circuit, cases: Cases) -> Solution:
     setup.check(cases)
     jn = Junctions.at(setup.table, cases.vf, cases.tj)
     return Solution.of(setup, cases, solve_state(setup, cases, jn), cases.tj)
+
+
+def shape_key(circuit: Circuit) -> tuple:
+    """Circuits with equal keys differ only in what the cases carry: they can share one solve."""
+    return (tuple(len(b.leds) for b in circuit.branches), circuit.current_driven, circuit.r_source,
+            tuple((d.i_test, d.n, d.r_s, d.tc, d.xti, d.t_test, d.rth or 0.0) for d in circuit.leds))
+
+
+def groups(circuits: Sequence[Circuit]) -> list[list[Circuit]]:
+    """The distinct circuits, grouped by shape."""
+    by_shape: dict[tuple, list[Circuit]] = {}
+    for c in dict.fromkeys(circuits):
+        by_shape.setdefault(shape_key(c), []).append(c)
+    return list(by_shape.values())
+
+
+def concat(cases: Sequence[Cases]) -> Cases:
+    return Cases(**{f.name: np.concatenate([getattr(c, f.name) for c in cases]) for f in fields(Cases)})

@@ -8,13 +8,14 @@ the electro-thermal loop gain is below one, the stability criterion of field-fac
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import Sequence
 
 import numpy as np
 from numpy.typing import NDArray
 
 from ledlint.engine.diode import Fit, Junctions
 from ledlint.engine.model import Circuit
-from ledlint.engine.solver import Cases, Linearised, Setup, Solution, State, solve_state
+from ledlint.engine.solver import Cases, Linearised, Setup, Solution, State, concat, groups, solve_state
 
 Array = NDArray[np.float64]
 
@@ -133,35 +134,44 @@ class LoopGain:
     settled: bool  # False when the operating point itself has run away
 
 
+def loop_gains_many(circuits: Sequence[Circuit]) -> list[LoopGain | None]:
+    """``loop_gains`` of many circuits, one solve per group of same-shaped circuits."""
+    done: dict[Circuit, LoopGain | None] = {}
+    for group in groups(circuits):
+        setup = Setup.of(group[0])
+        heat = np.flatnonzero(setup.table.rth > 0)
+        if heat.size == 0:
+            done.update((c, None) for c in group)
+            continue
+        nominal = concat([Cases.build(c) for c in group])
+        point = heated(setup, nominal)
+        m, n_c = heat.size, len(group)
+        # For each circuit, cases 2j and 2j+1 move LED heat[j] by ±_DT, every other junction held.
+        tj = np.repeat(point.tj, 2 * m, axis=0)
+        tj[np.arange(2 * m * n_c), np.tile(np.repeat(heat, 2), n_c)] += np.tile([_DT, -_DT], m * n_c)
+        cases = nominal.take(np.repeat(np.arange(n_c), 2 * m)).replace(tj=tj)
+        jn = Junctions.at(setup.table, cases.vf, cases.tj)
+        state = solve_state(setup, cases, jn, np.repeat(point.vj, 2 * m, axis=0))
+        power = Solution.of(setup, cases, state, cases.tj).led_power[:, heat].reshape(n_c, 2 * m, m)
+        d_power = ((power[:, 0::2] - power[:, 1::2]) / (2 * _DT)).transpose(0, 2, 1)  # [c, i, j] = ∂P_i/∂T_j
+        matrices = setup.table.rth[heat][None, :, None] * d_power
+        all_values, all_vectors = np.linalg.eig(matrices)
+        for c, matrix, values, vectors, settled in zip(group, matrices, all_values, all_vectors, point.settled):
+            top = int(np.argmax(values.real))
+            mode = vectors[:, top].real
+            mode = mode / mode[np.argmax(np.abs(mode))]
+            diagonal = np.diag(matrix).copy()
+            matrix = matrix.copy()
+            for arr in (matrix, mode, diagonal):
+                arr.setflags(write=False)
+            done[c] = LoopGain(gain=float(values[top].real), leds=tuple(int(j) for j in heat), matrix=matrix,
+                               mode=mode, self_gain=diagonal, settled=bool(settled))
+    return [done[c] for c in circuits]
+
+
 def loop_gains(circuit: Circuit) -> LoopGain | None:
     """The electro-thermal loop at the nominal point; None when no LED has an Rth."""
-    setup = Setup.of(circuit)
-    heat = np.flatnonzero(setup.table.rth > 0)
-    if heat.size == 0:
-        return None
-    nominal = Cases.build(circuit)
-    point = heated(setup, nominal)
-    m = heat.size
-    # Cases 2j and 2j+1 move LED heat[j] by ±_DT, every other junction held where it is.
-    tj = np.repeat(point.tj, 2 * m, axis=0)
-    rows = np.arange(2 * m)
-    tj[rows, np.repeat(heat, 2)] += np.tile([_DT, -_DT], m)
-    cases = nominal.take(np.zeros(2 * m, dtype=np.intp)).replace(tj=tj)
-    jn = Junctions.at(setup.table, cases.vf, cases.tj)
-    state = solve_state(setup, cases, jn, np.repeat(point.vj, 2 * m, axis=0))
-    power = Solution.of(setup, cases, state, cases.tj).led_power[:, heat]
-    d_power = ((power[0::2] - power[1::2]) / (2 * _DT)).T  # [i, j] = ∂P_i/∂T_j
-    matrix = setup.table.rth[heat][:, None] * d_power
-    values, vectors = np.linalg.eig(matrix)
-    top = int(np.argmax(values.real))
-    mode = vectors[:, top].real
-    mode = mode / mode[np.argmax(np.abs(mode))]
-    for arr in (matrix, mode):
-        arr.setflags(write=False)
-    diagonal = np.diag(matrix).copy()
-    diagonal.setflags(write=False)
-    return LoopGain(gain=float(values[top].real), leds=tuple(int(j) for j in heat), matrix=matrix,
-                    mode=mode, self_gain=diagonal, settled=bool(point.settled[0]))
+    return loop_gains_many([circuit])[0]
 
 
 def loop_gain(circuit: Circuit) -> float | None:
