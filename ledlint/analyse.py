@@ -12,7 +12,7 @@ import re
 import zlib
 from dataclasses import dataclass, field
 from ledlint.frozen import FrozenMap
-from typing import Mapping
+from typing import Generator, Mapping
 
 import numpy as np
 
@@ -20,7 +20,8 @@ from ledlint.config import Config
 from ledlint.drive import VCE_SAT, SetCurrent, driver_current, sink_current
 from ledlint.engine import Branch as EBranch
 from ledlint.engine import Circuit as ECircuit
-from ledlint.engine import Corners, LedSpec, ModelError, Range, Solution, corners, forward_voltage, loop_gain, monte_carlo
+from ledlint.engine import (Corners, LedSpec, ModelError, Range, Solution, corners_many, forward_voltage,
+                            loop_gains_many, monte_carlo)
 from ledlint.graph import NetGraph
 from ledlint.model import Component, Netlist, Pin, PinType
 from ledlint.params import (PIN_RESISTANCE, LedParams, Missing, Param, ResistorParams, led_params, pin_limit,
@@ -36,6 +37,8 @@ R_DS_ON = Range(2.0, 0.0, 7.5)
 V_DIODE = Range(0.7, 0.6, 1.0)
 HIGH_VOLTAGE = 60.0  # V DC: above it the usual safety caution applies (SELV limit, common practice)
 MC_SAMPLES = 2000  # per bank in a check; the benchmark runs 10,000
+Request = tuple  # (engine circuit, whether its loop gain is wanted)
+Answer = tuple  # (its Corners, its loop gain or None)
 
 
 @dataclass(frozen=True)
@@ -251,7 +254,8 @@ class _Analyser:
         return [led_params(self.ctx.comp(e.ref), self.ctx.config, e.die) for e in elements
                 if e.kind is ElementKind.LED]
 
-    def run(self, c: LedCircuit) -> Analysis:
+    def run(self, c: LedCircuit) -> Analysis | Generator[list[Request], list[Answer], Analysis]:
+        """An Analysis, or a generator that yields the engine circuits it needs solved first."""
         if c.kind in (CircuitKind.STRING, CircuitKind.BANK) and not c.blocked:
             return self.voltage_driven(c)
         if c.blocked:
@@ -261,7 +265,7 @@ class _Analyser:
         return Analysis(c)
 
     # -------------------------------------------------------------- voltage drive
-    def voltage_driven(self, c: LedCircuit) -> Analysis:
+    def voltage_driven(self, c: LedCircuit) -> Generator[list[Request], list[Answer], Analysis]:
         missing: list[Missing] = []
         assumptions: list[str] = []
         branch_leds = [self.led_params_of(b.elements) for b in c.branches]
@@ -291,14 +295,21 @@ class _Analyser:
             return Analysis(c, missing=tuple(missing), supply=first_supply, unlimited=unlimited, ambiguity=ambiguity)
         v_sw, r_sw = _path_drops(c.top + c.bottom + tuple(e for b in c.branches for e in b.elements), assumptions)
         rc = _resistance(common_res)
-        solved = []
+        plans = []
         for (src, ret, ks), sup in zip(problems, supplies):
             supply, r_pin = sup  # type: ignore[misc]
             if r_pin.maximum > 0:
                 assumptions.append(f"controller pin output resistance {r_pin.minimum:g}-{r_pin.maximum:g} Ω "
                                    "(typical GPIO at 20 mA, field-facts §9, common practice)")
-            solved.append(self.solve_voltage(c, src, ret, supply.volts, rc, _add(r_pin, r_sw), v_sw, common_res,
-                                             [branch_leds[k] for k in ks], [branch_res[k] for k in ks]))
+            leds, res = [branch_leds[k] for k in ks], [branch_res[k] for k in ks]
+            ebranches = tuple(EBranch(tuple(self.ctx.led_spec(p) for p in ps), _resistance(rs))
+                              for ps, rs in zip(leds, res))
+            ec = ECircuit(ebranches, supply=supply.volts, r_series=rc, r_switch=_add(r_pin, r_sw), v_switch=v_sw,
+                          ambient=self.ctx.ambient)
+            plans.append((src, ret, ec, leds, res))
+        answers = yield [(ec, True) for _, _, ec, _, _ in plans]
+        solved = [self.solve_voltage(c, src, ret, ec, cor, gain, common_res, leds, res)
+                  for (src, ret, ec, leds, res), (cor, gain) in zip(plans, answers)]
         engines = tuple(s.engine for s in solved)
         results = tuple(r for s in solved for r in s.leds)
         resistors = tuple(_worst_per_ref([r for s in solved for r in s.resistors]))
@@ -312,13 +323,12 @@ class _Analyser:
     def resistor(self, e: Element) -> ResistorParams:
         return resistor_params(self.ctx.comp(e.ref), self.ctx.config)
 
-    def solve_voltage(self, c: LedCircuit, src: Terminal | None, ret: Terminal | None, volts: Range, rc: Range,
-                      r_extra: Range, v_sw: Range, common_res: list[ResistorParams],
-                      branch_leds: list[list[LedParams]], branch_res: list[list[ResistorParams]]) -> _Solved:
-        ebranches = tuple(EBranch(tuple(self.ctx.led_spec(p) for p in ps), _resistance(rs))
-                          for ps, rs in zip(branch_leds, branch_res))
-        ec = ECircuit(ebranches, supply=volts, r_series=rc, r_switch=r_extra, v_switch=v_sw, ambient=self.ctx.ambient)
-        cor = corners(ec)
+    def solve_voltage(self, c: LedCircuit, src: Terminal | None, ret: Terminal | None, ec: ECircuit, cor: Corners,
+                      gain: float | None, common_res: list[ResistorParams], branch_leds: list[list[LedParams]],
+                      branch_res: list[list[ResistorParams]]) -> _Solved:
+        """Per-LED currents, resistor dissipation, pin currents and headroom of one solved circuit."""
+        rc, volts, v_sw = ec.r_series, ec.supply, ec.v_switch
+        assert volts is not None
         sol = cor.solution
         flat = [p for ps in branch_leds for p in ps]
         results = _led_results(cor, flat)
@@ -341,14 +351,10 @@ class _Analyser:
                            for k, ps in enumerate(branch_leds))
         headroom = volts.minimum - v_sw.maximum - worst_string
         ratio = float((cor.min_current.led_current / np.maximum(nominal.led_current, 1e-15)).min())
-        try:
-            gain = loop_gain(ec)
-        except ModelError:
-            gain = None
         sharing = None
         per_led = float(nominal.led_current.mean())
-        if len(ebranches) >= 2:
-            sharing = _sharing(ec, cor, flat, _seed(c), float(nominal.common_current) / len(ebranches))
+        if len(ec.branches) >= 2:
+            sharing = _sharing(ec, cor, flat, _seed(c), float(nominal.common_current) / len(ec.branches))
             per_led = sharing.equal_share
         return _Solved(tuple(results), tuple(resistors), tuple(pins), headroom, ratio, gain, sharing, per_led, ec)
 
@@ -367,7 +373,7 @@ class _Analyser:
                         leds=results)
 
     # -------------------------------------------------------------- current drive
-    def current_driven(self, c: LedCircuit) -> Analysis:
+    def current_driven(self, c: LedCircuit) -> Generator[list[Request], list[Answer], Analysis]:
         rail = None
         if c.sink is not None:
             ref = c.sink.reference
@@ -402,7 +408,7 @@ class _Analyser:
         specs = tuple(EBranch(tuple(self._spec_or_stand_in(p) for p in ps), _resistance(rs))
                       for ps, rs in zip(branch_leds, res))
         ec = ECircuit(specs, drive_current=setc.current, ambient=self.ctx.ambient)
-        cor = corners(ec)
+        [(cor, _)] = yield [(ec, False)]
         amb = self.ctx.ambient.maximum
         resistors = []
         for ref, r in setc.sense:
@@ -519,11 +525,52 @@ def cautions(netlist: Netlist, circuits: tuple[LedCircuit, ...], analyses: tuple
     return tuple(dict.fromkeys(out))
 
 
+def _solve_all(items: list[Analysis | Generator[list[Request], list[Answer], Analysis]]) -> list[Analysis]:
+    """Run the analyses, solving what they ask for in batches: one engine solve per circuit shape."""
+    done: dict[int, Analysis] = {}
+    waiting: dict[int, tuple[Generator[list[Request], list[Answer], Analysis], list[Request]]] = {}
+
+    def advance(i: int, g: Generator[list[Request], list[Answer], Analysis], answer: list[Answer] | None) -> None:
+        try:
+            waiting[i] = (g, g.send(answer) if answer is not None else next(g))
+        except StopIteration as stop:
+            done[i] = stop.value
+
+    for i, item in enumerate(items):
+        if isinstance(item, Analysis):
+            done[i] = item
+        else:
+            advance(i, item, None)
+    while waiting:
+        batch = list(waiting.items())
+        waiting.clear()
+        wanted = [ec for _, (_, reqs) in batch for ec, _ in reqs]
+        cors = dict(zip(wanted, corners_many(wanted)))
+        with_gain = list(dict.fromkeys(ec for _, (_, reqs) in batch for ec, g in reqs if g))
+        gains = dict(zip(with_gain, (None if lg is None else lg.gain for lg in _loop_gains(with_gain))))
+        for i, (g, reqs) in batch:
+            advance(i, g, [(cors[ec], gains.get(ec) if want else None) for ec, want in reqs])
+    return [done[i] for i in range(len(items))]
+
+
+def _loop_gains(circuits: list[ECircuit]) -> list:
+    try:
+        return loop_gains_many(circuits)
+    except ModelError:  # one bad group must not lose the rest: fall back circuit by circuit
+        out = []
+        for ec in circuits:
+            try:
+                out.append(loop_gains_many([ec])[0])
+            except ModelError:
+                out.append(None)
+        return out
+
+
 def analyse(netlist: Netlist, config: Config) -> BoardAnalysis:
     """Recognise and analyse every LED circuit of a netlist."""
     graph = NetGraph(netlist)
     circuits = recognise(graph, config)
     analyser = _Analyser(_Context(netlist, graph, config))
-    analyses = tuple(analyser.run(c) for c in circuits)
+    analyses = tuple(_solve_all([analyser.run(c) for c in circuits]))
     return BoardAnalysis(netlist, circuits, analyses, cautions(netlist, circuits, analyses, config),
                          FrozenMap({c.ref: c for c in netlist.components}))
