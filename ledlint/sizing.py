@@ -6,15 +6,15 @@ from the same model as the finding's.
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, replace
+from functools import lru_cache
 
 from ledlint.analyse import Analysis
-from ledlint.engine import Circuit, Range, corners
-from ledlint.eseries import ESeries, nearest_above
+from ledlint.engine import Circuit, Range
+from ledlint.engine.corners import ballast_scan
+from ledlint.eseries import ESeries, nearest_above, series_values
 from ledlint.ratings import chip_for, derated_power
-
-_MAX_STEPS = 48  # two decades of E24: far enough for any ballast that can be fixed by value
-
 
 @dataclass(frozen=True)
 class BallastFix:
@@ -40,44 +40,41 @@ def ballast_for(analysis: Analysis, current_limit: float, *, design_factor: floa
     """The smallest E24 common ballast keeping every LED at or under `current_limit` in every corner."""
     if not analysis.engine or analysis.set_current is not None:
         return None
-    best: BallastFix | None = None
-    for ec in analysis.engine:  # several when each string is lit alone: size for the worst
-        fix = _size(ec, current_limit)
-        if fix is None:
-            return None
-        if best is None or fix.resistance > best.resistance:
-            best = fix
-    if best is None:
+    fixes = [_size(ec, current_limit) for ec in analysis.engine]  # several when each string is lit alone
+    if not fixes or any(f is None for f in fixes):
         return None
+    best = max(fixes, key=lambda f: f.resistance)  # type: ignore[union-attr]
+    # P ≈ V²/R falls as R rises, so each string's own worst dissipation bounds it at the larger R.
+    power = max(f.power_max for f in fixes)  # type: ignore[union-attr]
     ambient = analysis.engine[0].ambient.maximum
-    rating = _required_rating(max(_power(ec, best.resistance) for ec in analysis.engine), design_factor, ambient,
-                              upper_category_c)
+    rating = _required_rating(power, design_factor, ambient, upper_category_c)
     chip = chip_for(rating)
-    return replace(best, rating=rating, chip=chip[0] if chip else "")
+    return replace(best, power_max=power, rating=rating, chip=chip[0] if chip else "")
 
 
-def _with_ballast(ec: Circuit, r: float) -> Circuit:
-    return replace(ec, r_series=Range.tolerance(r, _tolerance(ec.r_series)))
+def _candidates(start: float, decades: int) -> list[float]:
+    """E24 values from the first at or above `start` to `decades` decades higher."""
+    first = nearest_above(start, ESeries.E24)
+    low = math.floor(math.log10(first))
+    values = sorted({round(m * 10.0 ** d, 9) for d in range(low, low + decades + 1)
+                     for m in series_values(ESeries.E24)})
+    return [v for v in values if first * (1 - 1e-9) <= v <= first * 10 ** decades]
 
 
-def _power(ec: Circuit, r: float) -> float:
-    return corners(_with_ballast(ec, r)).ballast_power_max
-
-
+@lru_cache(maxsize=4096)
 def _size(ec: Circuit, limit: float) -> BallastFix | None:
-    now = corners(ec)
-    i_now = float(now.led_current_max.max())
-    if i_now <= 0:
-        return None
-    # Start near the value that would scale the current down, then walk up the E24 series.
-    start = max(ec.r_series.nominal, 1.0) * min(1.0, max(0.5, limit / i_now))
-    r = nearest_above(start, ESeries.E24)
-    for _ in range(_MAX_STEPS):
-        cor = corners(_with_ballast(ec, r))
-        i_max = float(cor.led_current_max.max())
-        if i_max <= limit:
-            return BallastFix(r, i_max, cor.ballast_power_max, 0.0, "")
-        r = nearest_above(r * 1.0001, ESeries.E24)
+    """Smallest E24 ballast keeping every LED at or under `limit`; memoised, as boards repeat circuits."""
+    tol = _tolerance(ec.r_series)
+    # Ohm's law with the LEDs at their lowest Vf gives the scale; every E24 value over two
+    # decades from half of it is tried in one solve.
+    assert ec.supply is not None
+    string = sum(led.vf.minimum for led in ec.branches[0].leds)
+    estimate = max((ec.supply.maximum - string) / limit, ec.r_series.nominal, 1.0)
+    candidates = _candidates(estimate * 0.5, 2)
+    peaks, powers = ballast_scan(ec, candidates, 1.0 - tol, 1.0 + tol)
+    for r, peak, power in zip(candidates, peaks, powers):
+        if peak <= limit:
+            return BallastFix(r, float(peak), float(power), 0.0, "")
     return None
 
 

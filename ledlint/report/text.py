@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import io
+import textwrap
 
 from rich.console import Console
 from rich.markup import escape
@@ -18,24 +19,34 @@ SAFETY = ("Mains and high-voltage LED circuits can kill. These findings are a re
           "reviewed by a qualified person.")
 
 
-def _finding(console: Console, f: Finding) -> None:
-    grid = Table.grid(padding=(0, 1))
-    grid.add_column(width=7, no_wrap=True, justify="right")
-    grid.add_column()
+_INDENT = 8
+
+
+def _wrapped(label: str, body: str, width: int, style: str = "") -> list[str]:
+    """Lines with a right-aligned label and a hanging indent, escaped for rich markup."""
+    lines = textwrap.wrap(body, width=max(width - _INDENT, 20), break_on_hyphens=False) or [""]
+    pad = " " * (_INDENT - 1 - len(label))
+    head = f"{pad}[{style}]{escape(label)}[/] " if style else f"{pad}{escape(label)} "
+    out = [head + escape(lines[0])]
+    out += [" " * _INDENT + escape(line) for line in lines[1:]]
+    return out
+
+
+def _finding(f: Finding, width: int) -> list[str]:
     where = f"line {f.line}" if f.line else ""
     refs = ", ".join(f.refs[:8]) + (f" … ({len(f.refs)} parts)" if len(f.refs) > 8 else "")
     head = " · ".join(x for x in (f.rule, where, refs, ("nets " + ", ".join(f.nets)) if f.nets else "") if x)
-    grid.add_row(f"[{_STYLE[f.severity]}]{f.severity.value.upper()}[/]", f"[bold]{escape(head)}[/]")
-    grid.add_row("", escape(f.message))
+    lines = _wrapped(f.severity.value.upper(), head, width, _STYLE[f.severity])
+    lines += _wrapped("", f.message, width)
     if f.hint:
-        grid.add_row("[green]fix[/]", escape(f.hint))
+        lines += _wrapped("fix", f.hint, width, "green")
     if f.assumed:
         shown = list(f.assumed[:5]) + ([f"… and {len(f.assumed) - 5} more (see --format json)"]
                                        if len(f.assumed) > 5 else [])
-        grid.add_row("[dim]assumed[/]", "[dim]" + escape("; ".join(shown)) + "[/]")
+        lines += _wrapped("assumed", "; ".join(shown), width, "dim")
     if f.waived:
-        grid.add_row("[dim]waived[/]", "[dim]" + escape(f.waived) + "[/]")
-    console.print(grid)
+        lines += _wrapped("waived", f.waived, width, "dim")
+    return lines
 
 
 def _amps(x: float | None) -> str:
@@ -71,8 +82,8 @@ def _file(console: Console, fr: FileResult, circuits: bool) -> None:
                   f"{analysed} analysed · {escape(n.tool or 'unknown tool')}")
     for note in n.notes:
         console.print(f"  [dim]reader note, line {note.line}: {escape(note.message)}[/]")
-    for f in fr.findings:
-        _finding(console, f)
+    if fr.findings:
+        console.print("\n".join(line for f in fr.findings for line in _finding(f, console.width)), soft_wrap=True)
     if fr.waived:
         console.print(f"  [dim]{len(fr.waived)} finding(s) waived[/]")
     if not fr.findings:
