@@ -19,7 +19,10 @@ _HEADER = """(export (version "E")
   (components
 """
 
-_COLOURS = ("red", "green", "blue", "yellow", "white")
+_COLOURS = ("red", "green InGaN", "blue", "yellow", "white", "orange", "green GaP")
+# Ballast values cycle through E12 so that no two neighbouring circuits are alike.
+_BALLASTS = ("150", "180", "220", "270", "330", "390", "470", "560", "680", "820", "1k", "1k2")
+_RAILS = ("+5V", "+3V3", "+12V")
 
 
 def _comp(ref: str, value: str, footprint: str, part: str, description: str, uuid: int) -> str:
@@ -46,13 +49,14 @@ def _node(ref: str, pin: str, function: str | None) -> str:
 
 
 def netlist(circuits: int) -> str:
-    """A board with `circuits` LED + resistor pairs on +5V (2 components each)."""
+    """A board with `circuits` LED + resistor pairs (2 components each) on three rails."""
     out = [_HEADER]
     for i in range(1, circuits + 1):
         colour = _COLOURS[i % len(_COLOURS)]
         out.append(_comp(f"D{i}", f"LED {colour}", "LED_SMD:LED_0603_1608Metric", "LED",
                          "Light emitting diode", 2 * i))
-        out.append(_comp(f"R{i}", "330", "Resistor_SMD:R_0603_1608Metric", "R", "Resistor", 2 * i + 1))
+        out.append(_comp(f"R{i}", _BALLASTS[i % len(_BALLASTS)], "Resistor_SMD:R_0603_1608Metric", "R",
+                         "Resistor", 2 * i + 1))
     out.append("  )\n  (libparts\n")
     out.append('    (libpart (lib "Device") (part "LED")\n      (description "Light emitting diode")\n'
                '      (fields (field (name "Reference") "D") (field (name "Value") "LED"))\n'
@@ -64,9 +68,12 @@ def netlist(circuits: int) -> str:
                '        (pin (num "2") (name "") (type "passive")))))\n')
     out.append('  (libraries\n    (library (logical "Device")\n'
                '      (uri "/usr/share/kicad/symbols/Device.kicad_sym")))\n  (nets\n')
-    code = 1
-    out.append(f'    (net (code "{code}") (name "+5V") (class "Default")\n')
-    out.append("\n".join(_node(f"R{i}", "1", None) for i in range(1, circuits + 1)) + ")\n")
+    code = 0
+    for k, rail in enumerate(_RAILS):
+        code += 1
+        out.append(f'    (net (code "{code}") (name "{rail}") (class "Default")\n')
+        out.append("\n".join(_node(f"R{i}", "1", None) for i in range(1, circuits + 1) if i % len(_RAILS) == k)
+                   + ")\n")
     code += 1
     out.append(f'    (net (code "{code}") (name "GND") (class "Default")\n')
     out.append("\n".join(_node(f"D{i}", "1", "K") for i in range(1, circuits + 1)) + ")\n")
