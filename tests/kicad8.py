@@ -29,6 +29,9 @@ SYMBOLS: dict[str, tuple[str, str, str, str, tuple[tuple[str, str, str], ...]]] 
                    (("1", "Pin_1", "passive"), ("2", "Pin_2", "passive"))),
     "D_Bridge_+-AA": ("Device", "D_Bridge_+-AA", "Diode bridge, +ve/-ve/AC/AC", "rectifier ACDC",
                       (("1", "+", "passive"), ("2", "-", "passive"), ("3", "~", "passive"), ("4", "~", "passive"))),
+    "Conn_01x04": ("Connector_Generic", "Conn_01x04", "Generic connector, single row, 01x04", "connector",
+                   (("1", "Pin_1", "passive"), ("2", "Pin_2", "passive"), ("3", "Pin_3", "passive"),
+                    ("4", "Pin_4", "passive"))),
     # An invented 8-pin microcontroller for the sample boards: supply pins and four port pins.
     "MCU8": ("ledlint_demo", "MCU8", "8-pin microcontroller (demo part)", "MCU",
              (("1", "VDD", "power_in"), ("2", "PA0", "bidirectional"), ("3", "PA1", "bidirectional"),
