@@ -13,7 +13,7 @@ from typing import Callable, Sequence
 from ledlint import __version__
 from ledlint.errors import LedlintError
 from ledlint.registry import rule_doc
-from ledlint.report import json_doc, text
+from ledlint.report import github, json_doc, markdown, sarif, text
 from ledlint.run import FAIL_LEVELS, RunResult, check, load_rules
 
 EXIT_CLEAN, EXIT_FINDINGS, EXIT_BAD_INPUT = 0, 1, 2
@@ -21,6 +21,9 @@ EXIT_CLEAN, EXIT_FINDINGS, EXIT_BAD_INPUT = 0, 1, 2
 FORMATS: dict[str, Callable[..., str]] = {
     "text": text.render,
     "json": json_doc.render,
+    "sarif": sarif.render,
+    "github": github.render,
+    "markdown": markdown.render,
 }
 
 
