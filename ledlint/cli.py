@@ -1,4 +1,4 @@
-"""Command line: `ledlint check PATH...`, `rules`, `explain ID`. Parses options, runs the library, prints."""
+"""Command line: `ledlint check`, `baseline`, `diff`, `rules`, `explain`. Parses options, runs the library, prints."""
 
 from __future__ import annotations
 
@@ -10,7 +10,7 @@ import tempfile
 from pathlib import Path
 from typing import Callable, Sequence
 
-from ledlint import __version__
+from ledlint import __version__, baseline, diff
 from ledlint.errors import LedlintError
 from ledlint.registry import rule_doc
 from ledlint.report import github, json_doc, markdown, sarif, text
@@ -60,6 +60,19 @@ def _parser() -> argparse.ArgumentParser:
                    help="exit 1 when a finding at or above this severity remains (default error)")
     c.add_argument("--config", metavar="FILE", help="use this ledlint.toml instead of searching for one")
     c.add_argument("--output", "-o", metavar="FILE", help="write the report to FILE (written whole, or not at all)")
+    c.add_argument("--baseline", metavar="PATH",
+                   help="count only findings not recorded in this baseline file; report its stale entries")
+    b = sub.add_parser("baseline", help="record the current findings, so that later checks count only new ones")
+    b.add_argument("paths", nargs="+", metavar="PATH", help="a .net file, a folder or a glob")
+    b.add_argument("--config", metavar="FILE", help="use this ledlint.toml instead of searching for one")
+    b.add_argument("--output", "-o", metavar="FILE", default=baseline.DEFAULT_NAME,
+                   help=f"the baseline file to write (default {baseline.DEFAULT_NAME})")
+    d = sub.add_parser("diff", help="what changed electrically between two versions of a netlist")
+    d.add_argument("old", metavar="OLD", help="the netlist before the change")
+    d.add_argument("new", metavar="NEW", help="the netlist after it")
+    d.add_argument("--format", choices=sorted(diff.FORMATS), default="text", help="report format (default text)")
+    d.add_argument("--config", metavar="FILE", help="use this ledlint.toml for both instead of searching")
+    d.add_argument("--output", "-o", metavar="FILE", help="write the report to FILE (written whole, or not at all)")
     r = sub.add_parser("rules", help="list the rules")
     r.add_argument("--format", choices=("text", "json"), default="text")
     e = sub.add_parser("explain", help="print a rule's documentation")
@@ -115,9 +128,28 @@ def _render(fmt: str, result: RunResult, args: argparse.Namespace) -> str:
 
 
 def cmd_check(args: argparse.Namespace) -> int:
+    known = baseline.load(args.baseline) if args.baseline else None
     result = check(find_netlists(args.paths), config_path=args.config, progress=_progress())
+    if known is not None:
+        compared = baseline.compare(result, known)
+        result = compared.result
+        for line in compared.summary():
+            print(line, file=sys.stderr)
     write_whole(_render(args.format, result, args), args.output)
     return EXIT_FINDINGS if result.failed(args.fail_on) else EXIT_CLEAN
+
+
+def cmd_baseline(args: argparse.Namespace) -> int:
+    result = check(find_netlists(args.paths), config_path=args.config, progress=_progress())
+    write_whole(baseline.render(result, args.output), args.output)
+    print(f"{args.output}: recorded {len(result.findings)} finding(s) from {len(result.files)} file(s)",
+          file=sys.stderr)
+    return EXIT_CLEAN
+
+
+def cmd_diff(args: argparse.Namespace) -> int:
+    write_whole(diff.FORMATS[args.format](diff.diff_files(args.old, args.new, config_path=args.config)), args.output)
+    return EXIT_CLEAN
 
 
 def cmd_rules(args: argparse.Namespace) -> int:
@@ -147,7 +179,7 @@ def cmd_explain(args: argparse.Namespace) -> int:
 
 
 COMMANDS: dict[str, Callable[[argparse.Namespace], int]] = {
-    "check": cmd_check, "rules": cmd_rules, "explain": cmd_explain,
+    "check": cmd_check, "baseline": cmd_baseline, "diff": cmd_diff, "rules": cmd_rules, "explain": cmd_explain,
 }
 
 

@@ -1,0 +1,330 @@
+"""Netlist diff: circuit by circuit, what a change did electrically, and the findings it moved."""
+
+from __future__ import annotations
+
+import json
+from collections import Counter
+from dataclasses import dataclass
+from enum import Enum
+from pathlib import Path
+from collections.abc import Callable, Iterable
+from typing import Any
+
+from ledlint import __version__
+from ledlint.analyse import Analysis
+from ledlint.findings import Finding
+from ledlint.recognise import LedCircuit
+from ledlint.report.json_doc import finding_json
+from ledlint.report.markdown import cell, posix_path, refs_text, table
+from ledlint.run import FileResult, check
+from ledlint.units import quantity
+
+SCHEMA = 1
+
+
+class Status(Enum):
+    ADDED = "added"
+    REMOVED = "removed"
+    CHANGED = "changed"
+    UNCHANGED = "unchanged"
+
+
+class Quantity(Enum):
+    CURRENT = "current"  # per LED, A
+    DISSIPATION = "dissipation"  # per resistor at its worst corner, W
+    HEADROOM = "headroom"  # per circuit at the low corner, V
+
+
+_UNITS = {Quantity.CURRENT: "A", Quantity.DISSIPATION: "W", Quantity.HEADROOM: "V"}
+
+
+@dataclass(frozen=True)
+class Reading:
+    """One computed figure: its value, and for a current the least and most over the corners."""
+
+    value: float
+    low: float | None = None
+    high: float | None = None
+
+    def text(self, unit: str) -> str:
+        if self.low is None or self.high is None:
+            return quantity(self.value, unit)
+        return f"{quantity(self.value, unit)} ({quantity(self.low, unit)} – {quantity(self.high, unit)})"
+
+    def same(self, other: Reading) -> bool:
+        """Equal to three significant figures, the precision every report prints."""
+        return all(_sig(a) == _sig(b) for a, b in ((self.value, other.value), (self.low, other.low),
+                                                   (self.high, other.high)))
+
+
+def _sig(x: float | None) -> str:
+    return "" if x is None else f"{x:.3g}"
+
+
+@dataclass(frozen=True)
+class Moved:
+    """A figure that differs between the two netlists; None where one side has no such figure."""
+
+    quantity: Quantity
+    subject: str  # the LED die or the resistor; "" for the circuit's headroom
+    old: Reading | None
+    new: Reading | None
+
+    @property
+    def unit(self) -> str:
+        return _UNITS[self.quantity]
+
+    @property
+    def label(self) -> str:
+        return "headroom" if self.quantity is Quantity.HEADROOM else f"{self.quantity.value} {self.subject}"
+
+    def side(self, reading: Reading | None) -> str:
+        return "—" if reading is None else reading.text(self.unit)
+
+
+@dataclass(frozen=True)
+class CircuitDiff:
+    status: Status
+    old: LedCircuit | None
+    new: LedCircuit | None
+    moved: tuple[Moved, ...] = ()
+    appeared: tuple[Finding, ...] = ()
+    gone: tuple[Finding, ...] = ()
+    elsewhere: tuple[str, ...] = ()  # added or removed: circuits on the other side that hold some of its LEDs
+
+    @property
+    def id(self) -> str:
+        return (self.new or self.old).id  # type: ignore[union-attr]  # one side is always there
+
+    @property
+    def kind(self) -> str:
+        old, new = (c.kind.value if c else "" for c in (self.old, self.new))
+        return f"{old} → {new}" if old and new and old != new else new or old
+
+    @property
+    def leds_added(self) -> tuple[str, ...]:
+        return tuple(x for x in _leds(self.new) if self.old and x not in _leds(self.old))
+
+    @property
+    def leds_removed(self) -> tuple[str, ...]:
+        return tuple(x for x in _leds(self.old) if self.new and x not in _leds(self.new))
+
+
+@dataclass(frozen=True)
+class NetlistDiff:
+    old_path: str
+    new_path: str
+    circuits: tuple[CircuitDiff, ...]  # new netlist's order, then the removed ones
+    appeared: tuple[Finding, ...]  # findings tied to no circuit
+    gone: tuple[Finding, ...]
+
+    def counts(self) -> dict[str, int]:
+        out = {s.value: sum(c.status is s for c in self.circuits) for s in Status}
+        out["findings_appeared"] = len(self.appeared) + sum(len(c.appeared) for c in self.circuits)
+        out["findings_gone"] = len(self.gone) + sum(len(c.gone) for c in self.circuits)
+        return out
+
+    def summary(self) -> str:
+        n = self.counts()
+        return (f"{n['changed']} circuit(s) changed, {n['added']} added, {n['removed']} removed, "
+                f"{n['unchanged']} unchanged · {n['findings_appeared']} finding(s) appeared, "
+                f"{n['findings_gone']} went away")
+
+
+def _leds(c: LedCircuit | None) -> tuple[str, ...]:
+    return tuple(dict.fromkeys(i.split(":")[0] for i in c.leds)) if c else ()
+
+
+def readings(a: Analysis) -> dict[tuple[Quantity, str], Reading]:
+    """The figures a reviewer follows for one circuit, keyed by what they measure."""
+    out: dict[tuple[Quantity, str], Reading] = {}
+    if not a.solved:
+        return out
+    if not a.circuit.blocked:
+        for led in a.leds:
+            out[(Quantity.CURRENT, led.id)] = Reading(led.current.nominal, led.current.minimum, led.current.maximum)
+    for r in a.resistors:
+        out[(Quantity.DISSIPATION, r.ref)] = Reading(r.power_max)
+    if a.headroom_v is not None:
+        out[(Quantity.HEADROOM, "")] = Reading(a.headroom_v)
+    return out
+
+
+def _moved(old: Analysis | None, new: Analysis | None) -> tuple[Moved, ...]:
+    before = readings(old) if old else {}
+    after = readings(new) if new else {}
+    order = list(Quantity)
+    out = []
+    for key in sorted(dict.fromkeys([*after, *before]), key=lambda k: order.index(k[0])):  # stable sort
+        b, a = before.get(key), after.get(key)
+        if b is None or a is None or not b.same(a):
+            out.append(Moved(key[0], key[1], b, a))
+    return tuple(out)
+
+
+def _difference(before: Iterable[Finding],
+                after: Iterable[Finding]) -> tuple[tuple[Finding, ...], tuple[Finding, ...]]:
+    """(appeared, gone): findings compared by fingerprint, each accounting for one on the other side."""
+    before, after = list(before), list(after)
+
+    def missing(xs: list[Finding], ys: list[Finding]) -> tuple[Finding, ...]:
+        left = Counter(f.fingerprint for f in ys)
+        out = []
+        for f in xs:
+            if left[f.fingerprint] > 0:
+                left[f.fingerprint] -= 1
+            else:
+                out.append(f)
+        return tuple(out)
+
+    return missing(after, before), missing(before, after)
+
+
+def _pairs(old: tuple[LedCircuit, ...], new: tuple[LedCircuit, ...]) -> list[tuple[LedCircuit | None, LedCircuit | None]]:
+    """Match circuits by their LEDs: the same set first, then the largest overlap (LEDs regrouped)."""
+    def key(c: LedCircuit) -> frozenset[str]:
+        return frozenset(_leds(c)) or frozenset({"circuit " + c.id})
+
+    match: dict[int, int] = {}
+    by_key = {key(c): i for i, c in enumerate(old)}
+    for j, c in enumerate(new):
+        i = by_key.get(key(c))
+        if i is not None and i not in match.values():
+            match[j] = i
+    overlaps = sorted(((len(key(n) & key(o)), j, i) for j, n in enumerate(new) if j not in match
+                       for i, o in enumerate(old) if i not in match.values() and key(n) & key(o)),
+                      key=lambda t: (-t[0], t[1], t[2]))
+    for _, j, i in overlaps:
+        if j not in match and i not in match.values():
+            match[j] = i
+    pairs: list[tuple[LedCircuit | None, LedCircuit | None]] = [
+        (old[match[j]] if j in match else None, c) for j, c in enumerate(new)]
+    pairs += [(c, None) for i, c in enumerate(old) if i not in match.values()]
+    return pairs
+
+
+def compare(old: FileResult, new: FileResult) -> NetlistDiff:
+    """What changed from one checked netlist to the other, circuit by circuit."""
+    old_analyses = {a.circuit.id: a for a in old.board.analyses}
+    new_analyses = {a.circuit.id: a for a in new.board.analyses}
+
+    def findings(fr: FileResult, c: LedCircuit | None) -> list[Finding]:
+        return [f for f in fr.findings if c is not None and f.circuit == c.id]
+
+    def holding(c: LedCircuit | None, side: tuple[LedCircuit, ...]) -> tuple[str, ...]:
+        return tuple(o.id for o in side if set(_leds(o)) & set(_leds(c)))
+
+    out = []
+    for before, after in _pairs(old.board.circuits, new.board.circuits):
+        moved = _moved(old_analyses.get(before.id) if before else None, new_analyses.get(after.id) if after else None)
+        appeared, gone = _difference(findings(old, before), findings(new, after))
+        elsewhere: tuple[str, ...] = ()  # for an added or removed circuit
+        if before is None:
+            status, elsewhere = Status.ADDED, holding(after, old.board.circuits)
+        elif after is None:
+            status, elsewhere = Status.REMOVED, holding(before, new.board.circuits)
+        elif moved or appeared or gone or before.kind != after.kind or set(_leds(before)) != set(_leds(after)):
+            status = Status.CHANGED
+        else:
+            status = Status.UNCHANGED
+        out.append(CircuitDiff(status, before, after, moved, appeared, gone, elsewhere))
+    ids_old = {c.id for c in old.board.circuits}
+    ids_new = {c.id for c in new.board.circuits}
+    appeared, gone = _difference((f for f in old.findings if f.circuit not in ids_old),
+                                 (f for f in new.findings if f.circuit not in ids_new))
+    return NetlistDiff(old.path, new.path, tuple(out), appeared, gone)
+
+
+def diff_files(old: str | Path, new: str | Path, *, config_path: str | None = None) -> NetlistDiff:
+    """Check both netlists (each with its own configuration, unless one is given) and compare them."""
+    before, after = check([old], config_path=config_path), check([new], config_path=config_path)
+    return compare(before.files[0], after.files[0])
+
+
+_MARK = {Status.ADDED: "+", Status.REMOVED: "-", Status.CHANGED: "~"}
+
+
+def _finding_line(sign: str, f: Finding) -> str:
+    return f"{sign} {f.severity.value} {f.rule} ({refs_text(f.refs)}): {f.message}"
+
+
+def _status(c: CircuitDiff) -> str:
+    """The status with how the LEDs moved between circuits."""
+    parts = [f"LEDs added {', '.join(c.leds_added)}"] if c.leds_added else []
+    parts += [f"LEDs removed {', '.join(c.leds_removed)}"] if c.leds_removed else []
+    if c.elsewhere:
+        parts.append(("its LEDs were in " if c.status is Status.ADDED else "its LEDs are now in ")
+                     + ", ".join(c.elsewhere))
+    return c.status.value + "".join(f", {p}" for p in parts)
+
+
+def render_text(d: NetlistDiff) -> str:
+    out = [f"{posix_path(d.old_path)} → {posix_path(d.new_path)}"]
+    for c in d.circuits:
+        if c.status is Status.UNCHANGED:
+            continue
+        out.append(f"{_MARK[c.status]} {c.id}  {c.kind}  ({', '.join(_leds(c.new or c.old))}) {_status(c)}")
+        width = max((len(m.label) for m in c.moved), default=0)
+        out += [f"    {m.label:{width}}  {m.side(m.old)} → {m.side(m.new)}" for m in c.moved]
+        out += [f"    {_finding_line('+', f)}" for f in c.appeared] + [f"    {_finding_line('-', f)}" for f in c.gone]
+    if d.appeared or d.gone:
+        out.append("board")
+        out += [f"    {_finding_line('+', f)}" for f in d.appeared] + [f"    {_finding_line('-', f)}" for f in d.gone]
+    out.append(d.summary())
+    return "\n".join(out) + "\n"
+
+
+def _reading_json(r: Reading | None) -> dict[str, float | None] | None:
+    return None if r is None else {"value": r.value, "min": r.low, "max": r.high}
+
+
+def document(d: NetlistDiff) -> dict[str, Any]:
+    return {
+        "schema": SCHEMA,
+        "tool": {"name": "ledlint", "version": __version__},
+        "old": d.old_path,
+        "new": d.new_path,
+        "summary": d.counts(),
+        "circuits": [{
+            "status": c.status.value, "id": c.id, "old_id": c.old.id if c.old else None,
+            "new_id": c.new.id if c.new else None, "kind": c.kind, "leds": list(_leds(c.new or c.old)),
+            "leds_added": list(c.leds_added), "leds_removed": list(c.leds_removed), "elsewhere": list(c.elsewhere),
+            "moved": [{"quantity": m.quantity.value, "subject": m.subject, "unit": m.unit,
+                       "old": _reading_json(m.old), "new": _reading_json(m.new)} for m in c.moved],
+            "findings_appeared": [finding_json(f) for f in c.appeared],
+            "findings_gone": [finding_json(f) for f in c.gone],
+        } for c in d.circuits],
+        "findings_appeared": [finding_json(f) for f in d.appeared],
+        "findings_gone": [finding_json(f) for f in d.gone],
+    }
+
+
+def render_json(d: NetlistDiff) -> str:
+    return json.dumps(document(d), indent=2, ensure_ascii=False) + "\n"
+
+
+def render_markdown(d: NetlistDiff) -> str:
+    out = [f"**ledlint diff** `{cell(posix_path(d.old_path))}` → `{cell(posix_path(d.new_path))}` · {d.summary()}",
+           ""]
+    rows = []
+    for c in d.circuits:
+        if c.status is Status.UNCHANGED:
+            continue
+        rows.append(f"| {c.id} | {cell(_status(c))} | {cell(c.kind)} | | |")
+        rows += [f"| {c.id} | {cell(m.label)} | | {m.side(m.old)} | {m.side(m.new)} |" for m in c.moved]
+    if rows:
+        out += table(("circuit", "change", "kind", "was", "now"), rows)
+    findings = [("appeared", f) for c in d.circuits for f in c.appeared] + [("appeared", f) for f in d.appeared]
+    findings += [("went away", f) for c in d.circuits for f in c.gone] + [("went away", f) for f in d.gone]
+    if findings:
+        out += ["", *table(("finding", "severity", "rule", "parts", "message"),
+                           [f"| {what} | {f.severity.value} | `{f.rule}` | {cell(refs_text(f.refs))} | "
+                            f"{cell(f.message)} |" for what, f in findings])]
+    if not rows and not findings:
+        out.append("No electrical change.")
+    return "\n".join(out) + "\n"
+
+
+FORMATS: dict[str, Callable[[NetlistDiff], str]] = {
+    "text": render_text, "json": render_json, "markdown": render_markdown,
+}
