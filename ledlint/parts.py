@@ -19,6 +19,7 @@ class Kind(Enum):
 
     LED = "led"  # one or more light-emitting dies with exposed anode/cathode pins
     LED_ADDRESSABLE = "led-addressable"  # an LED with a built-in controller (data in/out)
+    REGULATOR = "current-regulator"  # a two-terminal constant-current part
     RESISTOR = "resistor"
     CAPACITOR = "capacitor"
     INDUCTOR = "inductor"
@@ -43,6 +44,9 @@ class Die:
     cathode: str
 
 
+# Two-terminal current regulators, whatever their symbol looks like (common practice names).
+REGULATOR_WORDS = re.compile(r"constant[ -]current|current[ -]regulat|current[ -]limiting diode|\bCCR\b|\bCRD\b",
+                             re.I)
 _WORD_LED = re.compile(r"(?<![a-z])led(?![a-z])|light[ -]emitting", re.I)
 _ADDRESSABLE_WORDS = re.compile(r"addressable|pixel|rgb|led|integrated controller", re.I)
 _COLOUR_TERMINAL = re.compile(r"^(R|G|B|W|Y|O|IR|UV|WW|CW)(A|K)$")
@@ -151,6 +155,8 @@ def classify(component: Component) -> Kind:
     prefix = re.match(r"[A-Za-z]*", component.ref).group(0).upper()
     if is_addressable(component):
         return Kind.LED_ADDRESSABLE
+    if len(component.pins) == 2 and REGULATOR_WORDS.search(text):
+        return Kind.REGULATOR
     if _WORD_LED.search(text) and led_dies(component):
         return Kind.LED
     names = {_pin_name(p) for p in component.pins}

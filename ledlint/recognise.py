@@ -157,19 +157,22 @@ class _Recogniser:
     def unrecognised(self, leds: list[str], reason: str, **kw: object) -> None:
         self.emit(CircuitKind.UNRECOGNISED, leds, reason=reason, **kw)
 
-    def driver_of(self, pin: Pin | None) -> DriverIC | None:
-        """The driver IC behind a pin, when the IC is described or looks like one."""
-        if pin is None:
-            return None
-        comp = self.comp(pin.ref)
-        found = {}
-        for key, (text, where) in self.config.part_settings(comp.ref, comp.value, comp.lib, comp.part).items():
-            if key in DRIVER_KEYS:
-                found[key] = (text, where)
+    def settings_of(self, comp: Component) -> dict[str, tuple[str, str]]:
+        """A part's driver keys from the configuration and its fields: key → (text, where)."""
+        found = {k: v for k, v in self.config.part_settings(comp.ref, comp.value, comp.lib, comp.part).items()
+                 if k in DRIVER_KEYS}
         for key in DRIVER_KEYS:
             text = comp.field(key)
             if text:
                 found[key] = (text, f"field {key} on {comp.ref}")
+        return found
+
+    def driver_of(self, pin: Pin | None, string: tuple[Element, ...] = ()) -> DriverIC | None:
+        """The driver IC behind a pin, when the IC is described or looks like one."""
+        if pin is None:
+            return None
+        comp = self.comp(pin.ref)
+        found = self.settings_of(comp)
         names = {p.name.upper() for p in comp.pins}
         looks = bool(_DRIVER_WORDS.search(" ".join((comp.value, comp.part, comp.description,
                                                      comp.properties.get("ki_keywords", "")))))
@@ -177,15 +180,34 @@ class _Recogniser:
         if not found and not looks:
             return None
         sense_names = [s.strip().upper() for s in found.get("sense_pins", ("",))[0].split(",") if s.strip()]
+        sense_nets = {p.net for p in comp.pins if p.net is not None and (
+            (sense_names and (p.name.upper() in sense_names or p.number in sense_names))
+            or (not sense_names and _SENSE_PIN.match(p.name or "")))}
+        in_string = {e.ref for e in string}
         sense_refs = []
-        for p in comp.pins:
-            if p.net is None or p.number == pin.number:
-                continue
-            if (sense_names and (p.name.upper() in sense_names or p.number in sense_names)) or \
-                    (not sense_names and _SENSE_PIN.match(p.name or "")):
-                sense_refs += [c.ref for c in self.graph.parts_on(p.net) if classify(c) is Kind.RESISTOR]
-        return DriverIC(comp.ref, pin, tuple(dict.fromkeys(sense_refs)),
+        for net in sense_nets:
+            for c in self.graph.parts_on(net):
+                if classify(c) is not Kind.RESISTOR or c.ref in in_string:
+                    continue
+                # A sense resistor runs from a sense pin to ground, to another sense pin or to the
+                # output the LEDs hang on (high-side sense); a pull-up on the same net is not one.
+                ends = {p.net for p in c.pins} - {net}
+                if ends & (sense_nets | {pin.net}) or any(self.topo.terminal(n).kind is TerminalKind.GROUND
+                                                          for n in ends if n):
+                    sense_refs.append(c.ref)
+        return DriverIC(comp.ref, pin, tuple(sorted(dict.fromkeys(sense_refs), key=_natural)),
                         tuple((k, t, w) for k, (t, w) in sorted(found.items())))
+
+    def regulator_driver(self, reg: Element) -> DriverIC:
+        """A two-terminal regulator as a driver: described in fields or configuration, or by its value."""
+        comp = self.comp(reg.ref)
+        found = self.settings_of(comp)
+        found.setdefault("driver", ("two-terminal", f"{reg.ref} is a two-terminal current regulator"))
+        if "current" not in found:
+            found["current"] = (comp.value, f"value {comp.value!r} of {reg.ref}")
+        pin = comp.pin(reg.a)
+        assert pin is not None
+        return DriverIC(comp.ref, pin, (), tuple((k, t, w) for k, (t, w) in sorted(found.items())))
 
     # ------------------------------------------------------------ current sinks
     def reference(self, transistor: Element) -> Reference:
@@ -214,9 +236,9 @@ class _Recogniser:
         if zeners:
             return Reference("zener", (zeners[0].ref,) + tuple(r.ref for r in feeds), rail,
                              detail=f"zener {zeners[0].ref} holds the base")
-        diodes = [c for c in parts if classify(c) in (Kind.DIODE, Kind.LED)]
-        if diodes:
-            return Reference("diodes", tuple(c.ref for c in diodes), rail, detail="diodes hold the base")
+        chain = self.diode_chain(net)
+        if chain:
+            return Reference("diodes", chain, rail, detail=f"{len(chain)} diode(s) in series hold the base")
         term = self.topo.terminal(net)
         if term.kind is TerminalKind.PIN:
             return Reference("pin", (term.pin.ref,) if term.pin else (), pin=term.pin, detail=term.detail)
@@ -231,6 +253,18 @@ class _Recogniser:
                 return Reference("pin", (r.ref, t.pin.ref if t.pin else ""), pin=t.pin,
                                  detail=f"{t.detail} through {r.ref}")
         return Reference("unknown", tuple(c.ref for c in parts), detail=f"net {net} holds {len(parts)} other part(s)")
+
+    def diode_chain(self, net: str) -> tuple[str, ...]:
+        """Diodes (or LEDs) in series from `net` down to ground, anodes up; () if they do not reach it."""
+        refs: list[str] = []
+        while self.topo.terminal(net).kind is not TerminalKind.GROUND:
+            step = [e for e in self.topo.elements if e.kind in (ElementKind.DIODE, ElementKind.LED)
+                    and e.net_a == net and e.ref not in refs]
+            if len(step) != 1 or len(refs) > 8:
+                return ()
+            refs.append(step[0].ref)
+            net = step[0].net_b
+        return tuple(refs)
 
     def sink_in(self, elements: tuple[Element, ...], end: str) -> tuple[Sink, Terminal] | None:
         """A current sink made of `elements` (transistor first) ending at net `end`."""
@@ -402,8 +436,12 @@ class _Recogniser:
         for t in (src, ret):
             if t.kind in (TerminalKind.NODE,):
                 return  # handled (or reported) by node()
-        driver = self.driver_of(src.pin if src.kind is TerminalKind.PIN else None) or \
-            self.driver_of(ret.pin if ret.kind is TerminalKind.PIN else None)
+        string = tuple(e for s in segs for e in s.elements)
+        driver = self.driver_of(src.pin if src.kind is TerminalKind.PIN else None, string) or \
+            self.driver_of(ret.pin if ret.kind is TerminalKind.PIN else None, string)
+        regulators = [e for e in string if e.kind is ElementKind.REGULATOR]
+        if driver is None and regulators and len(segs) == 1:
+            driver = self.regulator_driver(regulators[0])
         ids = [e.id for s in segs for e in s.leds]
         if driver is not None:
             self.emit(CircuitKind.DRIVER, ids, branches=tuple(Branch(s.elements) for s in segs), source=src,

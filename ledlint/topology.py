@@ -99,7 +99,6 @@ _DRIVE_RANK = {PinType.OUTPUT: 4, PinType.OPEN_COLLECTOR: 4, PinType.OPEN_EMITTE
                PinType.INPUT: 1}
 _SUPPLY_PIN = re.compile(r"^(V(CC|DD|SS|EE|IN|IO|BAT|DDIO|CCIO|DDA|CCA)?\d*[A-Z]?|GND[A-Z]*\d*|AGND|DGND|PGND|"
                          r"VREF|EP|PAD|NC)$", re.I)
-_REGULATOR_WORDS = re.compile(r"constant[ -]current|current[ -]regulat|current[ -]limiting diode|\bCCR\b", re.I)
 _IGNORED_ONE_PIN = re.compile(r"^(TP|MH|H|FID|MK|LOGO)\d", re.I)
 _SWITCH_PINS = {Kind.NPN: ("C", "E", "B"), Kind.PNP: ("E", "C", "B"),
                 Kind.NMOS: ("D", "S", "G"), Kind.PMOS: ("S", "D", "G")}
@@ -139,10 +138,14 @@ def elements_of(comp: Component, config: Config) -> tuple[Element, ...] | None:
     if pins is None:
         return None
     p, q = pins
-    text = " ".join((comp.value, comp.part, comp.description))
-    if (config.part_settings(comp.ref, comp.value, comp.lib, comp.part).get("driver", ("",))[0] == "two-terminal"
-            or (comp.field("driver") or "").strip() == "two-terminal" or _REGULATOR_WORDS.search(text)):
-        return (Element(comp.ref, ElementKind.REGULATOR, p.number, q.number, p.net, q.net, part=kind),)
+    described = config.part_settings(comp.ref, comp.value, comp.lib, comp.part).get("driver", ("",))[0]
+    if kind is Kind.REGULATOR or "two-terminal" in (described, (comp.field("driver") or "").strip()):
+        # Current flows into the anode-like pin: A / + / pin 1 by the usual convention (common practice).
+        named = {x.name.upper(): x for x in (p, q)}
+        first = named.get("A") or named.get("+") or named.get("IN") or p
+        second = q if first is p else p
+        return (Element(comp.ref, ElementKind.REGULATOR, first.number, second.number, first.net, second.net,
+                        part=Kind.REGULATOR),)
     if kind is Kind.RESISTOR:
         return (Element(comp.ref, ElementKind.RESISTOR, p.number, q.number, p.net, q.net, part=kind),)
     if kind in (Kind.DIODE,):
