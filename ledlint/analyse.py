@@ -396,7 +396,7 @@ class _Analyser:
             # LED type unknown, 2.0 V ±10 % per LED stands in, and the findings say so.
             notes.append("LED type unknown: each LED taken as 2.0 V ±10 % at 20 mA for the current split")
         sup_missing: list[Missing] = []
-        sup = self.ctx.supply(c.source, c.ret, sup_missing)
+        sup = self.driver_supply(c, setc, sup_missing)
         missing = _unique(missing + unknown + sup_missing)
         if setc is None:
             return Analysis(c, missing=tuple(missing), assumptions=tuple(notes), supply=sup[0] if sup else None,
@@ -412,9 +412,11 @@ class _Analyser:
         amb = self.ctx.ambient.maximum
         resistors = []
         for ref, r in setc.sense:
-            i = setc.current.maximum
-            resistors.append(ResistorResult(ref, resistor_params(self.ctx.comp(ref), self.ctx.config), "sense", i,
-                                            i * i * r.maximum, amb))
+            # The sense voltage is what the loop holds, so P = V²/R: most at the highest V and least R.
+            v = setc.sense_voltage.maximum
+            power = v * v / r.minimum if v > 0 and r.minimum > 0 else setc.current.maximum ** 2 * r.maximum
+            resistors.append(ResistorResult(ref, resistor_params(self.ctx.comp(ref), self.ctx.config), "sense",
+                                            setc.current.maximum, power, amb))
         resistors += _balancing(cor.solution, res, amb)
         k = len(c.branches)
         sharing = _sharing(ec, cor, flat, _seed(c), setc.current.nominal / k) if k >= 2 else None
@@ -428,6 +430,28 @@ class _Analyser:
         return Analysis(c, True, tuple(missing), tuple(dict.fromkeys(notes)), sup[0] if sup else None, setc,
                         tuple(_led_results(cor, flat)), tuple(resistors), (), setc.current.nominal / k, headroom,
                         None, sharing, None, False, ambiguity, (ec,))
+
+    def driver_supply(self, c: LedCircuit, setc: SetCurrent | None, missing: list[Missing]) -> tuple[Supply, Range] | None:
+        """What a current output works from: the LEDs' own supply for a sink or linear driver (the
+        output end is the regulator, not a pin at 0 V), the driver's input for a buck or boost."""
+        if setc is not None and setc.kind in ("buck", "boost") and c.driver is not None:
+            limits = dict(setc.limits)
+            if "vin_min" in limits and "vin_max" in limits:
+                lo, hi = limits["vin_min"], limits["vin_max"]
+                return Supply(Range((lo + hi) / 2, lo, hi), (f"{c.driver.ref} input {lo:g}-{hi:g} V as described",)), \
+                    Range.fixed(0.0)
+            got = ic_supply(self.ctx.comp(c.driver.ref), self.ctx.config)
+            if got is None:
+                missing.append(Missing("input voltage", f"{c.driver.ref}'s input rail has no known voltage",
+                                       f"give {c.driver.ref} vin_min and vin_max, or name its input rail's voltage"))
+                return None
+            return Supply(got[0], (got[1],)), Range.fixed(0.0)
+        top = c.source if c.source is not None and c.source.kind is not TerminalKind.PIN else None
+        if top is None:
+            return None
+        basis: list[str] = []
+        got = self.ctx.end_voltage(top, True, missing, basis)
+        return (Supply(got[0], tuple(basis)), got[1]) if got else None
 
     def _spec_or_stand_in(self, p: LedParams) -> LedSpec:
         if p.complete:

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from ledlint.config import Config
+from ledlint.config import DRIVER_KINDS, Config
 from ledlint.engine import Range
 from ledlint.graph import NetGraph
 from ledlint.params import Missing, Origin, Param, resistor_params
@@ -27,7 +27,6 @@ VGS = Range(2.0, 1.0, 3.0)
 VDIODE = Range(0.65, 0.55, 0.75)
 ZENER_TOLERANCE = 0.05  # the common ±5 % zener grade (from memory)
 VCE_SAT = Range(0.1, 0.05, 0.3)  # field-facts §9: 2N3904 ≤ 0.2 V at 10 mA, ≤ 0.3 V at 50 mA
-DRIVER_KINDS = ("linear", "buck", "boost", "two-terminal")
 
 
 @dataclass(frozen=True)
@@ -83,10 +82,14 @@ def sink_current(sink: Sink, graph: NetGraph, config: Config, ambient: Range,
         v_base = _reference_voltage(ref, graph, config, rail, missing, notes)
         if v_base is None:
             return None, missing, notes
-        v_emitter = Range(v_base.nominal - drop.nominal, max(v_base.minimum - drop.maximum, 0.0),
-                          max(v_base.maximum - drop.minimum, 0.0))
+        # Below one V_BE (or V_GS) the transistor is off: the emitter sits at 0 V, not below.
+        lo, nom, hi = (max(x, 0.0) for x in (v_base.minimum - drop.maximum, v_base.nominal - drop.nominal,
+                                            v_base.maximum - drop.minimum))
+        v_emitter = Range(min(max(nom, lo), hi), lo, hi)
         what = "V_GS" if mos else "V_BE"
         basis = f"{ref.detail} at {v_base.nominal:.2f} V, less {what} {drop.nominal:.2f} V"
+        if ref.kind == "divider":
+            notes.append("the divider's loading by the base current is neglected")
     if missing:
         return None, missing, notes
     if re_range.minimum <= 0:

@@ -49,6 +49,30 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
             continue
         out = c.sink.transistor.ref if c.sink else c.driver.ref  # type: ignore[union-attr]
         limits = dict(setc.limits)
+        if setc.current.maximum <= 0:
+            yield ctx.finding(a, Severity.ERROR, "{out} never conducts: {basis}, so {leds} stay dark",
+                              values=(Value("current", 0.0, "A"),), out=out, basis=setc.basis, leds=ids(c.leds),
+                              assumed=tuple(circuit_assumptions(a)),
+                              hint="raise the reference above one V_BE (or V_GS) plus the sense voltage wanted")
+            continue
+        if "current_max" in limits and setc.current.maximum > limits["current_max"]:
+            yield ctx.finding(a, Severity.ERROR, "{out} is set to up to {current}, above its current_max of {cmax}",
+                              values=(Value("current", setc.current.maximum, "A", limits["current_max"], ">"),
+                                      Value("cmax", limits["current_max"], "A")), out=out,
+                              assumed=tuple(circuit_assumptions(a)),
+                              hint="raise the sense resistor, or use a driver rated for the current")
+        if a.supply is not None and setc.kind != "boost":
+            v = a.supply.volts
+            if "vin_min" in limits and v.minimum < limits["vin_min"]:
+                yield ctx.finding(a, Severity.ERROR, "{out}'s input can fall to {vin}, below its vin_min of {limit}",
+                                  values=(Value("vin", v.minimum, "V", limits["vin_min"], "<"),
+                                          Value("limit", limits["vin_min"], "V")), out=out,
+                                  assumed=tuple(circuit_assumptions(a)), hint="a higher input, or a driver for it")
+            if "vin_max" in limits and v.maximum > limits["vin_max"]:
+                yield ctx.finding(a, Severity.ERROR, "{out}'s input can reach {vin}, above its vin_max of {limit}",
+                                  values=(Value("vin", v.maximum, "V", limits["vin_max"], ">"),
+                                          Value("limit", limits["vin_max"], "V")), out=out,
+                                  assumed=tuple(circuit_assumptions(a)), hint="a lower input, or a driver for it")
         strings = [sum(r.params.vf_max.value for r in a.leds if r.id in {e.id for e in b.leds})
                    for b in c.branches if all(r.params.complete for r in a.leds)]
         assumed = tuple(x for r in a.leds for x in led_assumptions(r))[:6] + tuple(circuit_assumptions(a))
@@ -73,13 +97,14 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
             continue
         need = a.supply.volts.minimum - a.headroom_v  # type: ignore[union-attr]
         yield ctx.finding(
-            a, Severity.ERROR, "{out} cannot hold its current: the input can fall to {vin}, but {leds} need {need} "
+            a, Severity.ERROR, "{out} cannot hold its current: the input can fall to {vin}, but {who} needs {need} "
             "(string at maximum Vf, plus {sense} sense and {dropout} dropout); short by {short}",
             values=(Value("vin", a.supply.volts.minimum, "V"), Value("need", need, "V"),  # type: ignore[union-attr]
                     Value("short", -a.headroom_v, "V", 0.0, ">"), Value("sense", setc.sense_voltage.maximum, "V"),
                     Value("dropout", setc.dropout.maximum, "V")),
-            out=out, leds=ids(c.leds), assumed=assumed,
-            hint="fewer LEDs per string, a higher input, or a boost driver")
+            out=out, who=(f"each of its {len(c.branches)} strings (such as {ids([e.id for e in c.branches[0].leds])})"
+                          if len(c.branches) > 1 else ids(c.leds)),
+            assumed=assumed, hint="fewer LEDs per string, a higher input, or a boost driver")
 
 
 RULE = Rule(
