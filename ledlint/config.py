@@ -16,7 +16,8 @@ from ledlint.frozen import FrozenMap
 from typing import Any, Mapping
 
 from ledlint.errors import ConfigError
-from ledlint.units import Quantity, parse_current, parse_temperature, parse_tolerance, parse_voltage
+from ledlint.units import (Quantity, parse_current, parse_power, parse_temperature, parse_thermal_resistance,
+                           parse_tolerance, parse_vf, parse_voltage)
 
 CONFIG_NAME = "ledlint.toml"
 
@@ -27,6 +28,12 @@ PIN_KEYS = ("pin_current_max",)
 DRIVER_KEYS = ("driver", "sense_pins", "output_pin", "vref", "vref_tolerance", "current", "current_tolerance",
                "current_max", "dropout", "vin_min", "vin_max", "vout_max")
 PART_KEYS = LED_KEYS + RESISTOR_KEYS + PIN_KEYS + DRIVER_KEYS
+DRIVER_KINDS = ("linear", "buck", "boost", "two-terminal")
+# What each key's text must read as (units.py grammar); checked when the file is loaded.
+_VOLTAGE = ("Vf_min", "Vf_max", "Vr_max", "vref", "dropout", "vin_min", "vin_max", "vout_max")
+_CURRENT = ("If_max", "current", "current_max", "pin_current_max")
+_TOLERANCE = ("Tolerance", "vref_tolerance", "current_tolerance")
+_DIE_KEY = re.compile(r"^(Vf|Vf_min|Vf_max|If_max|Vr_max|Rth|colour)_([A-Za-z0-9]{1,2})$")
 WAIVER_FIELD = "ledlint_waive"  # a schematic field: "rule-id[, rule-id]: reason"
 SEVERITIES = ("error", "warning", "info", "off")
 
@@ -137,15 +144,37 @@ def _rail(name: str, raw: Any, path: str) -> RailSetting:
     return RailSetting(nominal, lo, hi)
 
 
+def _part_value(key: str, value: Any, where: str, path: str) -> str:
+    """A part parameter's text, checked against what the key means."""
+    base = m.group(1) if (m := _DIE_KEY.match(key)) else key
+    grammar: dict[str, tuple[Any, str]] = {
+        **{k: (parse_voltage, '"2.1V"') for k in _VOLTAGE}, **{k: (parse_current, '"20mA"') for k in _CURRENT},
+        **{k: (parse_tolerance, '"5%"') for k in _TOLERANCE}, "Vf": (parse_vf, '"2.0V@20mA"'),
+        "Power": (parse_power, '"0.25W"'), "Rth": (parse_thermal_resistance, '"400K/W"'),
+    }
+    if base in grammar:
+        parse, example = grammar[base]
+        if not isinstance(value, str) or parse(value) is None:
+            raise ConfigError(f"{where} {key}: {value!r} is not a valid value; write it with its unit, "
+                              f"e.g. {key} = {example}", path)
+        return value
+    text = _text(value, f"{where} {key}", path)
+    if base == "driver" and text not in DRIVER_KINDS:
+        raise ConfigError(f"{where} driver: {text!r}{suggest(text, DRIVER_KINDS)}", path)
+    return text
+
+
 def _parts(table: Any, label: str, path: str) -> Mapping[str, Mapping[str, str]]:
     out = {}
     canonical = {k.casefold(): k for k in PART_KEYS}
     for key, raw in _table(table, f"[{label}]", path).items():
         where = f"[{label}.{key!r}]"
         settings = _table(raw, where, path)
-        _check_keys(settings, PART_KEYS, where, path)
-        out[key] = FrozenMap({canonical[k.casefold()]: _text(v, f"{where} {k}", path)
-                                     for k, v in settings.items()})
+        plain = {k: v for k, v in settings.items() if not _DIE_KEY.match(k)}
+        _check_keys(plain, PART_KEYS, where, path)
+        out[key] = FrozenMap({(canonical.get(k.casefold(), k)): _part_value(canonical.get(k.casefold(), k), v,
+                                                                             where, path)
+                              for k, v in settings.items()})
     return FrozenMap(out)
 
 
