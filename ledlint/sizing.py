@@ -11,10 +11,13 @@ from dataclasses import dataclass, replace
 from functools import lru_cache
 
 from ledlint.analyse import Analysis
-from ledlint.engine import Circuit, Range
+from ledlint.engine import Circuit, Range, monte_carlo
 from ledlint.engine.corners import ballast_scan
 from ledlint.eseries import ESeries, nearest_above, series_values
 from ledlint.ratings import chip_for, derated_power
+
+_SEED = 1  # a fixed Monte Carlo seed: the same hint every run
+
 
 @dataclass(frozen=True)
 class BallastFix:
@@ -83,3 +86,49 @@ def equal_share_resistor(supply_nominal: float, vf_typical: float, current: floa
     if current <= 0 or supply_nominal <= vf_typical:
         return None
     return nearest_above((supply_nominal - vf_typical) / current, ESeries.E24)
+
+
+@dataclass(frozen=True)
+class BalancingFix:
+    resistance: float  # ohm, an E24 value, in series with each string
+    tolerance: float
+    spread: float  # the split's 99th-percentile spread with it (the rule's measure)
+    drop: float  # V across it at the equal share
+    power_max: float  # W in it at the worst sample
+
+
+def balancing_for(analysis: Analysis, limit: float, tolerance: float = 0.01,
+                  samples: int = 2000) -> BalancingFix | None:
+    """The smallest E24 balancing resistor per string that brings the Monte Carlo split within `limit`.
+
+    Searched by bisection over E24 values (the split falls as the resistor grows), each step
+    re-running the analysis's own Monte Carlo with the candidate in every string.
+    """
+    if len(analysis.engine) != 1 or analysis.sharing is None:
+        return None
+    ec = analysis.engine[0]
+    share = analysis.sharing.equal_share
+    if share <= 0:
+        return None
+    candidates = _candidates(0.1, 5)
+
+    def with_r(r: float) -> Circuit:
+        return replace(ec, branches=tuple(replace(b, r=Range.tolerance(b.r.nominal + r, tolerance))
+                                          for b in ec.branches))
+
+    def spread(r: float):
+        mc = monte_carlo(with_r(r), samples=samples, seed=_SEED)
+        return float(mc.spread_summary.p99), float(mc.solution.branch_resistor_power.max())
+
+    lo, hi = 0, len(candidates) - 1
+    if spread(candidates[hi])[0] > limit:
+        return None
+    while lo < hi:
+        mid = (lo + hi) // 2
+        if spread(candidates[mid])[0] <= limit:
+            hi = mid
+        else:
+            lo = mid + 1
+    r = candidates[lo]
+    got, power = spread(r)
+    return BalancingFix(r, tolerance, got, r * share, power)

@@ -37,14 +37,14 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ledlint.eseries import ESeries, nearest_above
+from ledlint.ratings import chip_for
 from ledlint.findings import Finding, Severity, Value, quantity
 from ledlint.params import Param
 from ledlint.recognise import CircuitKind
 from ledlint.registry import Option, Rule, RuleContext
 from ledlint.rules._support import by_evidence, circuit_assumptions, ids, led_assumptions
+from ledlint.sizing import balancing_for
 
-_VT = 0.02585  # V, kT/q at 300 K (field-facts §5c)
 # More than this across a balancing resistor wastes more than it balances (common practice).
 _MAX_BALANCING_DROP = 2.0
 
@@ -57,7 +57,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
             continue
         output = c.sink.transistor.ref if c.sink else c.driver.ref  # type: ignore[union-attr]
         n = len(c.branches)
-        refs = (output, *c.refs)
+        refs = tuple(dict.fromkeys((output, *c.refs)))
         stand_in = any(not r.params.complete for r in a.leds)
         if a.sharing is None:
             yield ctx.finding(a, Severity.WARNING, "{n} strings ({leds}) share one constant-current output, "
@@ -67,6 +67,8 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                               hint="give each string its own output, or a balancing resistor")
             continue
         s = a.sharing
+        if a.set_current is not None and a.set_current.current.maximum <= 0:
+            continue  # the output never conducts: driver-headroom says so
         worst = next(r for r in a.leds if r.id == s.worst_led)
         if_max = worst.params.if_max
         over = isinstance(if_max, Param) and s.worst_current > if_max.value
@@ -97,26 +99,18 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
 
 
 def _hint(a, limit: float) -> str:
-    share = a.sharing.equal_share
-    leds_per = max(len(b.leds) for b in a.circuit.branches)
-    p = a.leds[0].params
-    if p.complete:
-        mismatch = leds_per * (p.vf_max.value - p.vf_min.value)
-        rd = leds_per * (p.n * _VT / max(share, 1e-6) + p.r_s)
-    else:
-        mismatch, rd = leds_per * 0.4, leds_per * (2 * _VT / max(share, 1e-6) + p.r_s)
-    need = mismatch / (limit * share) - rd
     text = "give each string its own output or sink transistor"
-    if need <= 0:
+    fix = balancing_for(a, limit)
+    if fix is None:
         return text
-    r = nearest_above(need, ESeries.E24)
-    drop = r * share
-    if drop > _MAX_BALANCING_DROP:
-        return (text + f" (a balancing resistor would have to drop {quantity(drop, 'V')} to hold the split within "
-                f"{limit:.0%} against a worst-case Vf mismatch of {quantity(mismatch, 'V')})")
-    return text + (f", or put {quantity(r, 'Ω')} (E24) in series with each string: it drops {quantity(drop, 'V')} "
-                   f"against a worst-case Vf mismatch of {quantity(mismatch, 'V')}, for a split within {limit:.0%} "
-                   "(ΔI/I ≈ ΔV/(I·(R + r_d)))")
+    if fix.drop > _MAX_BALANCING_DROP:
+        return text + (f" (a balancing resistor would have to drop {quantity(fix.drop, 'V')} per string to hold "
+                       f"the split within {limit:.0%})")
+    chip = chip_for(fix.power_max / 0.5)
+    size = f", rated at least {quantity(fix.power_max / 0.5, 'W')} ({chip[0]} or larger)" if chip else ""
+    return text + (f", or put {quantity(fix.resistance, 'Ω')} {fix.tolerance * 100:g} % (E24) in series with each string: "
+                   f"it drops {quantity(fix.drop, 'V')} and brings the split to {fix.spread:.1%} (Monte Carlo, "
+                   f"as above){size}")
 
 
 RULE = Rule(
