@@ -7,6 +7,7 @@ import glob
 import os
 import sys
 import tempfile
+import traceback
 from pathlib import Path
 from typing import Callable, Sequence
 
@@ -16,7 +17,7 @@ from ledlint.registry import rule_doc
 from ledlint.report import github, json_doc, markdown, sarif, text
 from ledlint.run import FAIL_LEVELS, RunResult, check, load_rules
 
-EXIT_CLEAN, EXIT_FINDINGS, EXIT_BAD_INPUT = 0, 1, 2
+EXIT_CLEAN, EXIT_FINDINGS, EXIT_BAD_INPUT, EXIT_INTERNAL = 0, 1, 2, 3
 
 FORMATS: dict[str, Callable[..., str]] = {
     "text": text.render,
@@ -87,7 +88,10 @@ def write_whole(out: str, destination: str | None) -> None:
         sys.stdout.flush()
         return
     target = Path(destination)
-    fd, tmp = tempfile.mkstemp(dir=target.parent if str(target.parent) else ".", prefix=".ledlint-")
+    try:
+        fd, tmp = tempfile.mkstemp(dir=target.parent if str(target.parent) else ".", prefix=".ledlint-")
+    except OSError as exc:
+        raise LedlintError(f"cannot write the report here: {exc.strerror or exc}", destination) from None
     try:
         with os.fdopen(fd, "w", encoding="utf-8") as fh:
             fh.write(out)
@@ -196,3 +200,10 @@ def main(argv: Sequence[str] | None = None) -> int:
         return EXIT_BAD_INPUT
     except BrokenPipeError:
         return EXIT_CLEAN
+    except Exception as exc:  # a bug in ledlint, not in the input: never exit 1, which means findings
+        where = traceback.extract_tb(exc.__traceback__)[-1]
+        print(f"ledlint: internal error: {type(exc).__name__}: {exc} (at {Path(where.filename).name}:{where.lineno}); "
+              "this is a bug in ledlint, please report it with the netlist", file=sys.stderr)
+        if os.environ.get("LEDLINT_DEBUG"):
+            traceback.print_exc()
+        return EXIT_INTERNAL
