@@ -272,13 +272,13 @@ class _Analyser:
         all_leds = [p for ps in branch_leds for p in ps]
         ambiguity = "; ".join(sorted({f"{p.id}: {p.ambiguity}" for p in all_leds if p.ambiguity}))
         for p in all_leds:
-            missing += [m for m in (p.vf, p.vf_max, p.vf_min) if isinstance(m, Missing)][:1]
+            missing += list(p.unreadable) + [m for m in (p.vf, p.vf_max, p.vf_min) if isinstance(m, Missing)][:1]
         common = c.top + c.bottom + (c.branches[0].elements if c.kind is CircuitKind.STRING else ())
         common_res = [self.resistor(e) for e in common if e.kind is ElementKind.RESISTOR]
         branch_res = [[self.resistor(e) for e in b.elements if e.kind is ElementKind.RESISTOR]
                       for b in c.branches] if c.kind is CircuitKind.BANK else [[] for _ in c.branches]
-        missing += [rp.resistance for rp in common_res + [r for rs in branch_res for r in rs]
-                    if isinstance(rp.resistance, Missing)]
+        for rp in common_res + [r for rs in branch_res for r in rs]:
+            missing += list(rp.unreadable) + ([rp.resistance] if isinstance(rp.resistance, Missing) else [])
         limited = bool(common_res) or all(branch_res)
         # Lit alone when each string has its own driver pin; otherwise all together.
         if c.individually_driven:
@@ -390,7 +390,8 @@ class _Analyser:
         branch_leds = [self.led_params_of(b.elements) for b in c.branches]
         flat = [p for ps in branch_leds for p in ps]
         ambiguity = "; ".join(sorted({f"{p.id}: {p.ambiguity}" for p in flat if p.ambiguity}))
-        unknown = [m for p in flat for m in (p.vf,) if isinstance(m, Missing)][:1]
+        unknown = [m for p in flat for m in p.unreadable] + [m for p in flat for m in (p.vf,)
+                                                              if isinstance(m, Missing)][:1]
         if unknown:
             # The split between strings depends on the Vf spread more than on Vf itself: with the
             # LED type unknown, 2.0 V ±10 % per LED stands in, and the findings say so.
@@ -549,16 +550,27 @@ def cautions(netlist: Netlist, circuits: tuple[LedCircuit, ...], analyses: tuple
     return tuple(dict.fromkeys(out))
 
 
-def _solve_all(items: list[Analysis | Generator[list[Request], list[Answer], Analysis]]) -> list[Analysis]:
-    """Run the analyses, solving what they ask for in batches: one engine solve per circuit shape."""
+def _solve_all(circuits: tuple[LedCircuit, ...],
+               items: list[Analysis | Generator[list[Request], list[Answer], Analysis]]) -> list[Analysis]:
+    """Run the analyses, solving what they ask for in batches: one engine solve per circuit shape.
+
+    A circuit the engine cannot model (absurd part values) gets a finding-ready Missing; it
+    never takes the rest of the board with it.
+    """
     done: dict[int, Analysis] = {}
     waiting: dict[int, tuple[Generator[list[Request], list[Answer], Analysis], list[Request]]] = {}
+
+    def unmodelled(i: int, exc: ModelError) -> None:
+        done[i] = Analysis(circuits[i], missing=(Missing("a usable model", f"the part values cannot be modelled: "
+                                                         f"{exc.message}", "check the LED and resistor values"),))
 
     def advance(i: int, g: Generator[list[Request], list[Answer], Analysis], answer: list[Answer] | None) -> None:
         try:
             waiting[i] = (g, g.send(answer) if answer is not None else next(g))
         except StopIteration as stop:
             done[i] = stop.value
+        except ModelError as exc:
+            unmodelled(i, exc)
 
     for i, item in enumerate(items):
         if isinstance(item, Analysis):
@@ -569,12 +581,29 @@ def _solve_all(items: list[Analysis | Generator[list[Request], list[Answer], Ana
         batch = list(waiting.items())
         waiting.clear()
         wanted = [ec for _, (_, reqs) in batch for ec, _ in reqs]
-        cors = dict(zip(wanted, corners_many(wanted)))
+        cors = _corners(wanted)
         with_gain = list(dict.fromkeys(ec for _, (_, reqs) in batch for ec, g in reqs if g))
         gains = dict(zip(with_gain, (None if lg is None else lg.gain for lg in _loop_gains(with_gain))))
         for i, (g, reqs) in batch:
+            failed = next((cors[ec] for ec, _ in reqs if isinstance(cors[ec], ModelError)), None)
+            if failed is not None:
+                unmodelled(i, failed)
+                continue
             advance(i, g, [(cors[ec], gains.get(ec) if want else None) for ec, want in reqs])
     return [done[i] for i in range(len(items))]
+
+
+def _corners(circuits: list[ECircuit]) -> dict[ECircuit, Corners | ModelError]:
+    try:
+        return dict(zip(circuits, corners_many(circuits)))
+    except ModelError:  # find the culprit: one bad group must not lose the rest
+        out: dict[ECircuit, Corners | ModelError] = {}
+        for ec in dict.fromkeys(circuits):
+            try:
+                out[ec] = corners_many([ec])[0]
+            except ModelError as exc:
+                out[ec] = exc
+        return out
 
 
 def _loop_gains(circuits: list[ECircuit]) -> list:
@@ -595,6 +624,6 @@ def analyse(netlist: Netlist, config: Config) -> BoardAnalysis:
     graph = NetGraph(netlist)
     circuits = recognise(graph, config)
     analyser = _Analyser(_Context(netlist, graph, config))
-    analyses = tuple(_solve_all([analyser.run(c) for c in circuits]))
+    analyses = tuple(_solve_all(circuits, [analyser.run(c) for c in circuits]))
     return BoardAnalysis(netlist, circuits, analyses, cautions(netlist, circuits, analyses, config),
                          FrozenMap({c.ref: c for c in netlist.components}))

@@ -82,13 +82,23 @@ def _lookup(component: Component, config: Config, key: str) -> _Text | None:
 
 
 def _quantity(component: Component, config: Config, keys: tuple[str, ...],
-              parse: Callable[[str], Quantity | None]) -> tuple[Param | None, _Text | None]:
+              parse: Callable[[str], Quantity | None], bad: list[Missing] | None = None) -> Param | None:
+    """The first of `keys` that is set, parsed; a value that is set but unreadable goes to `bad`."""
     for key in keys:
         found = _lookup(component, config, key)
         if found is not None:
             q = parse(found.text)
-            return (Param(q.value, found.origin, found.detail) if q else None), found
-    return None, None
+            if q is None:
+                if bad is not None:
+                    bad.append(Missing(key, f"{found.detail} cannot be read",
+                                       f"write {key} with its unit, e.g. {_EXAMPLES.get(key.split('_')[0], key)}"))
+                return None
+            return Param(q.value, found.origin, found.detail)
+    return None
+
+
+_EXAMPLES = {"Vf": "Vf = 2.0V@20mA", "If": "If_max = 20mA", "Vr": "Vr_max = 5V", "Rth": "Rth = 400K/W",
+             "Tolerance": "Tolerance = 1%", "Power": "Power = 0.25W", "pin": "pin_current_max = 20mA"}
 
 
 # ---------------------------------------------------------------- resistors
@@ -100,6 +110,7 @@ class ResistorParams:
     tolerance: Param
     power: Param | Missing  # rated dissipation at 70 °C
     upper_category_c: float  # where the IEC 60115-1 derating line reaches zero
+    unreadable: tuple[Missing, ...] = ()  # fields that are set but cannot be read
 
 
 # ±5 % (IEC 60062 letter J) is the tolerance of general-purpose resistors (common practice).
@@ -114,12 +125,13 @@ def resistor_params(component: Component, config: Config) -> ResistorParams:
                                               f"give {component.ref} a value such as 330R or 4k7")
     else:
         resistance = Param(parsed.value, Origin.VALUE, f"value {component.value!r}")
-    tolerance, _ = _quantity(component, config, ("Tolerance",), parse_tolerance)
+    bad: list[Missing] = []
+    tolerance = _quantity(component, config, ("Tolerance",), parse_tolerance, bad)
     if tolerance is None:
         q = parse_tolerance(component.value)
         tolerance = (Param(q.value, Origin.VALUE, f"value {component.value!r}") if q else
                      Param(DEFAULT_TOLERANCE, Origin.DEFAULT, "general-purpose resistor"))
-    power, _ = _quantity(component, config, ("Power",), parse_power)
+    power = _quantity(component, config, ("Power",), parse_power, bad)
     upper = DEFAULT_UPPER_CATEGORY_C
     if power is None:
         q = parse_power(component.value)
@@ -133,7 +145,8 @@ def resistor_params(component: Component, config: Config) -> ResistorParams:
         upper = rating.upper_category_c
     return ResistorParams(component.ref, resistance, tolerance, power or Missing(
         "power rating", f"{component.ref}: no Power field and footprint {component.footprint!r} "
-        "does not tell a rating", f"add a field Power (e.g. Power = 0.25W) to {component.ref}"), upper)
+        "does not tell a rating", f"add a field Power (e.g. Power = 0.25W) to {component.ref}"), upper,
+        tuple(bad))
 
 
 # ---------------------------------------------------------------- LEDs
@@ -157,6 +170,7 @@ class LedParams:
     n: float
     r_s: float
     ambiguity: str = ""  # why the technology, and so Vf, is uncertain
+    unreadable: tuple[Missing, ...] = ()  # fields that are set but cannot be read
 
     @property
     def id(self) -> str:
@@ -164,7 +178,7 @@ class LedParams:
 
     @property
     def complete(self) -> bool:
-        return not any(isinstance(p, Missing) for p in (self.vf, self.vf_min, self.vf_max))
+        return not self.unreadable and not any(isinstance(p, Missing) for p in (self.vf, self.vf_min, self.vf_max))
 
 
 def _die_key(key: str, die: str) -> tuple[str, ...]:
@@ -205,6 +219,9 @@ def led_params(component: Component, config: Config, die: str = "") -> LedParams
         vf_field = _lookup(component, config, key)
         if vf_field:
             break
+    bad: list[Missing] = []
+    if vf_field and not parse_vf(vf_field.text):
+        bad.append(Missing("Vf", f"{vf_field.detail} cannot be read", "write it like Vf = 2.0V@20mA"))
     if vf_field and (parsed := parse_vf(vf_field.text)):
         vq, iq = parsed
         vf = Param(vq.value, vf_field.origin, vf_field.detail)
@@ -217,7 +234,7 @@ def led_params(component: Component, config: Config, die: str = "") -> LedParams
                      "colour in the value (red, yellow, green GaP or InGaN, blue, white, ...)")
 
     def bound(key: str, table_value: float | None, sign: int) -> Param | Missing:
-        p, _ = _quantity(component, config, _die_key(key, die), parse_voltage)
+        p = _quantity(component, config, _die_key(key, die), parse_voltage, bad)
         if p:
             return p
         if isinstance(vf, Param) and (vf.origin is not Origin.DEFAULT or table_value is None):
@@ -229,7 +246,7 @@ def led_params(component: Component, config: Config, die: str = "") -> LedParams
     vf_max = bound("Vf_max", tech.vf_max if tech else None, +1)
     vf_min = bound("Vf_min", None, -1)
 
-    if_max, _ = _quantity(component, config, _die_key("If_max", die), parse_current)
+    if_max: Param | Missing | None = _quantity(component, config, _die_key("If_max", die), parse_current, bad)
     if_upper = None
     if if_max is None:
         if is_indicator_footprint(component.footprint):
@@ -239,9 +256,9 @@ def led_params(component: Component, config: Config, die: str = "") -> LedParams
             if_max = Missing("If_max", f"{component.ref}: no If_max field, and footprint "
                              f"{component.footprint!r} is not a small indicator package",
                              f"add a field If_max (e.g. If_max = 350mA) to {component.ref}")
-    vr_max, _ = _quantity(component, config, _die_key("Vr_max", die), parse_voltage)
+    vr_max = _quantity(component, config, _die_key("Vr_max", die), parse_voltage, bad)
     vr_max = vr_max or Param(VR_MAX, Origin.DEFAULT, "the usual LED reverse-voltage rating")
-    rth, _ = _quantity(component, config, _die_key("Rth", die), parse_thermal_resistance)
+    rth = _quantity(component, config, _die_key("Rth", die), parse_thermal_resistance, bad)
     if rth is None and is_indicator_footprint(component.footprint):
         rth = Param(INDICATOR_RTH, Origin.DEFAULT, "typical of a small indicator package")
     tc = Param(tech.tc if tech else -0.002, Origin.DEFAULT, f"{tech.name if tech else 'general'} LED")
@@ -251,6 +268,7 @@ def led_params(component: Component, config: Config, die: str = "") -> LedParams
         vf_max=vf_max, i_test=i_test, if_max=if_max, if_max_upper=if_upper, vr_max=vr_max, rth=rth, tc=tc,
         n=tech.n if tech else 2.0, r_s=series_resistance(rating),
         ambiguity=ambiguity if not isinstance(vf, Param) or vf.origin is Origin.DEFAULT else "",
+        unreadable=tuple(bad),
     )
 
 
@@ -292,5 +310,5 @@ PIN_RESISTANCE = (40.0, 50.0, 65.0)
 
 
 def pin_limit(component: Component, config: Config) -> Param:
-    p, _ = _quantity(component, config, ("pin_current_max",), parse_current)
+    p = _quantity(component, config, ("pin_current_max",), parse_current)
     return p or Param(PIN_LIMIT, Origin.DEFAULT, "a typical GPIO pin rating")
