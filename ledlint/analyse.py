@@ -55,6 +55,7 @@ class LedResult:
     vf: float  # V at the nominal corner
     tj_max: float  # °C
     reverse_v: float = 0.0  # the most reverse voltage it can see, ≥ 0
+    low: float = 0.0  # A at the low corner (least supply, most resistance, every LED at Vf max, cold)
 
 
 @dataclass(frozen=True)
@@ -106,6 +107,7 @@ class Analysis:
     unlimited: bool = False
     ambiguity: str = ""
     engine: tuple[ECircuit, ...] = ()  # the engine's circuits, one per string lit alone or one in all
+    gaps: tuple[Missing, ...] = ()  # what one check lacks while the rest ran (an LED's unknown If_max)
 
 
 @dataclass(frozen=True)
@@ -318,7 +320,7 @@ class _Analyser:
         return Analysis(c, True, (), tuple(dict.fromkeys(assumptions)), first_supply, None, results, resistors,
                         pins, max(s.nominal for s in solved), min(s.headroom for s in solved),
                         min(s.min_ratio for s in solved), solved[0].sharing if len(solved) == 1 else None,
-                        max(gains) if gains else None, unlimited, ambiguity, engines)
+                        max(gains) if gains else None, unlimited, ambiguity, engines, _gaps(results))
 
     def resistor(self, e: Element) -> ResistorParams:
         return resistor_params(self.ctx.comp(e.ref), self.ctx.config)
@@ -350,7 +352,7 @@ class _Analyser:
         worst_string = max(sum(_vf_max_at(p, float(nominal.branch_current[k]), self.ctx.ambient.minimum) for p in ps)
                            for k, ps in enumerate(branch_leds))
         headroom = volts.minimum - v_sw.maximum - worst_string
-        ratio = float((cor.min_current.led_current / np.maximum(nominal.led_current, 1e-15)).min())
+        ratio = min(r.low / max(r.current.nominal, 1e-15) for r in results)
         sharing = None
         per_led = float(nominal.led_current.mean())
         if len(ec.branches) >= 2:
@@ -428,9 +430,10 @@ class _Analyser:
             worst = max(sum(_vf_max_at(p, setc.current.maximum / k, self.ctx.ambient.minimum) for p in ps)
                         for ps in branch_leds)
             headroom = sup[0].volts.minimum - worst - setc.sense_voltage.maximum - setc.dropout.maximum
+        results = tuple(_led_results(cor, flat))
         return Analysis(c, True, tuple(missing), tuple(dict.fromkeys(notes)), sup[0] if sup else None, setc,
-                        tuple(_led_results(cor, flat)), tuple(resistors), (), setc.current.nominal / k, headroom,
-                        None, sharing, None, False, ambiguity, (ec,))
+                        results, tuple(resistors), (), setc.current.nominal / k, headroom,
+                        None, sharing, None, False, ambiguity, (ec,), _gaps(results))
 
     def driver_supply(self, c: LedCircuit, setc: SetCurrent | None, missing: list[Missing]) -> tuple[Supply, Range] | None:
         """What a current output works from: the LEDs' own supply for a sink or linear driver (the
@@ -481,8 +484,13 @@ def _led_results(cor: Corners, flat: list[LedParams]) -> list[LedResult]:
         out.append(LedResult(p.id, p, Range(i_nom, min(float(cor.led_current_min[j]), i_nom),
                                             max(float(cor.led_current_max[j]), i_nom)),
                              float(nominal.led_voltage[j]), float(sol.tj[:, j].max()),
-                             max(0.0, -float(sol.led_voltage[:, j].min()))))
+                             max(0.0, -float(sol.led_voltage[:, j].min())), float(cor.min_current.led_current[j])))
     return out
+
+
+def _gaps(results: tuple[LedResult, ...] | list[LedResult]) -> tuple[Missing, ...]:
+    """LED ratings that are not known, so current-margin could not judge those LEDs."""
+    return tuple(r.params.if_max for r in results if isinstance(r.params.if_max, Missing))
 
 
 def _balancing(sol: Solution, branch_res: list[list[ResistorParams]], ambient: float) -> list[ResistorResult]:

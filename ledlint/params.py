@@ -253,9 +253,9 @@ def led_params(component: Component, config: Config, die: str = "") -> LedParams
             lo, if_upper = INDICATOR_IF_MAX
             if_max = Param(lo, Origin.DEFAULT, "small indicator LEDs are commonly rated 20-30 mA")
         else:
-            if_max = Missing("If_max", f"{component.ref}: no If_max field, and footprint "
-                             f"{component.footprint!r} is not a small indicator package",
-                             f"add a field If_max (e.g. If_max = 350mA) to {component.ref}")
+            if_max = Missing("If_max", f"no If_max field, and footprint {component.footprint!r} is not a small "
+                             "indicator package, so current-margin could not judge them",
+                             "add a field If_max (e.g. If_max = 350mA) from the LED's datasheet")
     vr_max = _quantity(component, config, _die_key("Vr_max", die), parse_voltage, bad)
     vr_max = vr_max or Param(VR_MAX, Origin.DEFAULT, "the usual LED reverse-voltage rating")
     rth = _quantity(component, config, _die_key("Rth", die), parse_thermal_resistance, bad)

@@ -13,9 +13,9 @@ Why it matters
     production run will see.
 
 Example
-    A red LED (If_max 20 mA) on +5V through 150 Ω: nominal (5 − 1.85) / 150 = 21 mA, more
-    at 5.25 V with a −5 % resistor. Error. With 220 Ω the worst case is about 16 mA: still
-    above 15 mA, a warning; 270 Ω brings it to about 13.7 mA: clean.
+    A red LED (If_max 20 mA) from +5V through 150 Ω: about 21 mA nominal and 25 mA at the
+    worst corner (5.25 V, the resistor 5 % low, the lowest Vf): error. Through 220 Ω the worst
+    case is about 17.5 mA, above 15 mA: a warning. Through 270 Ω it is about 14.4 mA: clean.
 
 Fix
     Raise the ballast to the E24 value in the hint (it re-solves the worst corner with it), or

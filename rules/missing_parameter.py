@@ -40,7 +40,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
     groups: dict[tuple[str, str], list] = {}
     reasons: dict[tuple[str, str], str] = {}
     for a in ctx.analyses:
-        for m in a.missing:
+        for m in a.missing + a.gaps:
             groups.setdefault((m.name, m.fix), []).append(a)
             reasons.setdefault((m.name, m.fix), m.reason)
     for (name, fix), analyses in groups.items():

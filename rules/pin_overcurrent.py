@@ -11,8 +11,9 @@ Why it matters
     package's supply-pin limit. Absolute maxima of 25-40 mA per pin are not operating points.
 
 Example
-    A red LED from a 3.3 V pin through 47 Ω: nearly 30 mA at the worst corner. Error. Fixed:
-    120 Ω, about 12 mA, or drive it through a transistor.
+    A red LED from a 3.3 V pin through 47 Ω: up to 21.7 mA at the worst corner, over the
+    20 mA per-pin default (a warning while the limit is that default; an error against a
+    `pin_current_max` from the part's datasheet). Fixed: 120 Ω, 12.6 mA at the worst corner.
 
 Fix
     Raise the series resistor to the E24 value in the hint, or switch the LED with a

@@ -13,9 +13,10 @@ Why it matters
     overloads there first.
 
 Example
-    A 100 Ω 0603 (0.1 W) ballast from +12V to one red LED: (12.6 − 1.7)² / 95 ≈ 1.25 W
-    would burn it; far above even the full rating: error. A 680 Ω part dissipates about
-    0.2 W at worst: needs 0.4 W usable rating, so a 1210 (0.5 W) or larger.
+    A 100 Ω 0603 (0.1 W) ballast from +12V to one red LED dissipates up to 1.1 W at the worst
+    corner: error, far past even the full rating. A 680 Ω 0603 still dissipates up to 0.19 W:
+    above the full rating too; at the 50 % design factor it needs 0.38 W of rating, a 1210
+    (0.5 W) or larger.
 
 Fix
     Use the package or power rating in the hint, or raise the value where the current allows.

@@ -13,9 +13,10 @@ Why it matters
     with about 10 Ω of dynamic resistance each that is a 10 mA imbalance on a 2 × 10 mA bank.
 
 Example
-    D1, D2, D3 (red) in parallel from +5V through one 100 Ω resistor: 31 mA in total, but
-    one LED can take well over its third. Fixed: one 270 Ω resistor per LED, or all three in
-    series from a 12 V rail through one resistor.
+    D1, D2, D3 (red) in parallel from +5V through one 100 Ω resistor: 33 mA in all, 11 mA each
+    on paper, but with each LED's Vf anywhere in its range one of them can take about 36 mA:
+    error. Fixed: one 270 Ω resistor per LED (about 12 mA each), or all three in series from a
+    12 V rail through one 560 Ω resistor (under 15 mA at the worst corner).
 
 Fix
     Give each LED its own resistor (the hint sizes it for today's per-LED current), or put
@@ -55,7 +56,12 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
         leds = list(c.leds)
         refs = tuple(dict.fromkeys(shared + [i.split(":")[0] for i in leds]))
         nets = (c.node,)
-        who = f"{ids(leds)} in parallel behind {join(shared)}"
+        strings = [b.leds for b in c.branches]
+        if any(len(st) > 1 for st in strings):
+            who = (f"{len(strings)} strings ({'; '.join(ids([e.id for e in st]) for st in strings[:4])}"
+                   f"{'; …' if len(strings) > 4 else ''}) in parallel behind {join(shared)}")
+        else:
+            who = f"{ids(leds)} in parallel behind {join(shared)}"
         if c.individually_driven:
             pins = sorted({b.far.pin.ref + " " + (b.far.pin.name or b.far.pin.number)
                            for b in c.branches if b.far and b.far.pin})
@@ -93,26 +99,30 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
 
 
 def _hint(a) -> str:
+    """One resistor per string for today's share (or 75 % of If_max, if that is less); or all in series."""
     c = a.circuit
     n = len(c.branches)
-    share = a.sharing.equal_share
-    per_branch = [r for r in a.leds]
-    vf_typ = max(r.params.vf.value for r in per_branch)
-    vf_max = max(r.params.vf_max.value for r in per_branch)
+    limits = [r.params.if_max.value for r in a.leds if isinstance(r.params.if_max, Param)]
+    target = min([a.sharing.equal_share] + [0.75 * x for x in limits])
+    by_id = {r.id: r for r in a.leds}
+    strings = [[by_id[e.id] for e in b.leds] for b in c.branches]
+    string_typ = max(sum(r.params.vf.value for r in st) for st in strings)
+    string_max = max(sum(r.params.vf_max.value for r in st) for st in strings)
     v = a.supply.volts
+    word = "LED" if all(len(st) == 1 for st in strings) else "string"
     parts = []
-    each = equal_share_resistor(v.nominal, vf_typ, share)
+    each = equal_share_resistor(v.nominal, string_typ, target)
     if each:
-        parts.append(f"give each LED its own {quantity(each, 'Ω')} resistor (E24, about {quantity(share, 'A')} "
-                     "each, as now)")
-    leds_per_branch = max(len(b.leds) for b in c.branches)
-    series_v = n * leds_per_branch * vf_max
+        parts.append(f"give each {word} its own {quantity(each, 'Ω')} resistor (E24, about "
+                     f"{quantity(target, 'A')} each)")
+    series_v = n * string_max
     if v.minimum - series_v >= 1.0:
-        r = equal_share_resistor(v.nominal, n * leds_per_branch * vf_typ, share)
+        r = equal_share_resistor(v.nominal, n * string_typ, target)
         if r:
-            parts.append(f"or put all {n * leds_per_branch} in series with one {quantity(r, 'Ω')} resistor "
+            leds = sum(len(st) for st in strings)
+            parts.append(f"or put all {leds} in series with one {quantity(r, 'Ω')} resistor "
                          f"(string {quantity(series_v, 'V')} at most, supply {quantity(v.minimum, 'V')} at least)")
-    return "; ".join(parts) or "give each LED its own resistor"
+    return "; ".join(parts) or f"give each {word} its own resistor"
 
 
 RULE = Rule(

@@ -13,8 +13,9 @@ Why it matters
     dark indicators.
 
 Example
-    A white LED on +3V3 through 15 Ω: nominal about 10 mA, but at 3.14 V with a 3.4 V-max LED
-    it is nearly off. Fixed: run it from +5V through 150 Ω.
+    A white LED on +3V3 through 15 Ω: about 23 mA nominal, but at 3.14 V with a 3.4 V-max
+    LED it drops under 2 mA. Error (a warning while Vf max is only the built-in table's).
+    Fixed: run it from +5V through 150 Ω: about 14 mA nominal and 9 mA at the low corner.
 
 Fix
     Use a higher rail (the hint gives the least supply that leaves 1 V across the ballast),
@@ -45,24 +46,28 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
     for a in ctx.analyses:
         if not a.solved or a.unlimited or a.set_current is not None or a.headroom_v is None or a.min_ratio is None:
             continue
+        if a.supply is not None and a.supply.volts.maximum <= 0:
+            continue  # reversed: reverse-bias reports it, headroom means nothing here
         if a.headroom_v <= 0 or a.min_ratio < dead:
             severity = Severity.ERROR
         elif a.min_ratio < least:
             severity = Severity.WARNING
         else:
             continue
-        low = min(a.leds, key=lambda r: r.current.minimum / max(r.current.nominal, 1e-15))
+        low = min(a.leds, key=lambda r: r.low / max(r.current.nominal, 1e-15))
         severity = by_evidence(severity, any(is_default(r.params.vf_max) for r in a.leds))
         string_v = a.supply.volts.minimum - a.headroom_v
         values = (Value("supply_min", a.supply.volts.minimum, "V"), Value("string", string_v, "V"),
-                  Value("headroom", a.headroom_v, "V", 0.0, "<"), Value("low", low.current.minimum, "A"),
-                  Value("nominal", low.current.nominal, "A"), Value("ratio", a.min_ratio, "%", least, "<"))
+                  Value("headroom", a.headroom_v, "V", 0.0, "<"), Value("low", low.low, "A"),
+                  Value("nominal", low.current.nominal, "A"),
+                  Value("ratio", low.low / max(low.current.nominal, 1e-15), "%", least, "<"))
+        what = "the string needs" if len(a.circuit.branches[0].leds) > 1 else "the LED needs"
         if a.headroom_v <= 0:
-            template = ("{leds}: no headroom at the low corner. The supply can fall to {supply_min} but the "
-                        "string needs {string} at maximum Vf (headroom {headroom}), so {led} drops to {low} "
+            template = ("{leds}: no headroom at the low corner. The supply can fall to {supply_min} but "
+                        + what + " {string} at maximum Vf (headroom {headroom}), so {led} drops to {low} "
                         "against {nominal} nominal")
         else:
-            template = ("{leds}: at the low corner ({supply_min} supply, maximum Vf) {led} drops to {low}, "
+            template = ("at the low corner ({supply_min} supply, maximum Vf) {led} drops to {low}, "
                         "{ratio} of its {nominal} nominal; the ballast has only {headroom} to work with")
         need = string_v + 1.0
         hint = (f"use a supply of at least {quantity(need, 'V')} (1 V across the ballast at the low corner), "

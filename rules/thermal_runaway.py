@@ -11,8 +11,8 @@ Why it matters
     until they fail. A bigger ballast drop or a current driver breaks the loop.
 
 Example
-    A 1 W white LED (Rth 30 K/W) from +3V3 through 0.5 Ω: G ≈ 0.2, fine; the same LED
-    straight on the rail through its own resistance only: G ≈ 0.3 to 0.6 with hotter parts.
+    A 1 W white LED (Vf 3.0 V at 350 mA, Rth 30 K/W) from +3V3 through 0.1 Ω: G ≈ 0.6, a
+    warning. Through 0.86 Ω, G ≈ 0.18; a constant-current driver breaks the loop.
 
 Fix
     Raise the ballast so its drop is large against the Vf shift (about 1 V for ±10 % over

@@ -12,8 +12,8 @@ Why it matters
     better: a 0.1 V shift moves the current by tens of milliamps.
 
 Example
-    A red LED straight from +3V3 to GND: the model gives well over 100 mA. Fixed: 68 Ω in
-    series for about 20 mA at the worst corner.
+    A red LED straight from +3V3 to GND: the model gives up to about 250 mA. Fixed: 150 Ω in
+    series, the value the hint gives, for 13.6 mA at the worst corner.
 
 Fix
     Add a series resistor (the hint sizes one for 75 % of If_max at the worst corner), or
@@ -47,12 +47,15 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
         src = c.source.net if c.source else "?"
         ret = c.ret.net if c.ret else "?"
         values: tuple[Value, ...] = ()
-        template = "{leds} sit across {src} and {ret} with nothing to limit the current: no resistor, regulator or driver"
+        verb = "sits" if len(c.leds) == 1 else "sit"
+        template = ("{leds} " + verb + " across {src} and {ret} with nothing to limit the current: no resistor, "
+                    "regulator or driver")
         hint = "add a series resistor sized for the wanted current: R = (V − Vf) / I"
         if a.solved and a.leds:
             worst = max(a.leds, key=lambda r: r.current.maximum)
             values = (Value("model", worst.current.maximum, "A"),)
-            template += "; the model gives up to {model}, set only by the LEDs' internal resistance"
+            template += ("; the model gives up to {model}, set only by the LED's internal resistance" if len(c.leds) == 1
+                         else "; the model gives up to {model}, set only by the LEDs' internal resistance")
             limit = worst.params.if_max
             if isinstance(limit, Param):
                 fix = ballast_for(a, 0.75 * limit.value)
