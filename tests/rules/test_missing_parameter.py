@@ -61,10 +61,6 @@ def test_fixed_twins_are_checked(tmp_path: Path) -> None:
         assert all(a.solved for a in result.board.analyses)
 
 
-@pytest.mark.xfail(reason="an LED with no If_max on a package that is not a small indicator is silently left "
-                          "out of current-margin: the If_max Missing (with its fix text) never reaches "
-                          "missing-parameter (bug in analyse: only Vf and resistances are collected)",
-                   raises=AssertionError)
 def test_rating_unknown_is_reported(tmp_path: Path) -> None:
     """Mid-power LEDs at several times their test current, with no rating: not a pass."""
     b = Board("missing", "missing-parameter fixture")

@@ -96,10 +96,6 @@ def test_fixed_twin_has_one_resistor_each(tmp_path: Path) -> None:
     assert result.findings == ()
 
 
-@pytest.mark.xfail(reason="for strings in parallel the hint sizes one resistor per LED from a single LED's Vf "
-                          "('give each LED its own 620 Ω', from (5 − 2.0) V / 5 mA) instead of one per string "
-                          "from the string's (5 − 4.0) V / 5 mA = 200 Ω; the message also calls two strings of "
-                          "two 'D1, D2, D3 and D4 in parallel' (bug in the rule's hint)", raises=AssertionError)
 def test_hint_for_strings_sizes_one_resistor_per_string(tmp_path: Path) -> None:
     """Two strings of two red LEDs (2.0 V at 5 mA each) on /BANK behind one 100 Ω."""
     b = Board("bank", "shared-resistor-bank fixture")

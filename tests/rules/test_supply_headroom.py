@@ -62,8 +62,6 @@ def test_fixed_twin_from_5v(tmp_path: Path) -> None:
     assert result.findings == ()
 
 
-@pytest.mark.xfail(reason="supply-headroom also fires on a reversed LED, with a negative supply and "
-                          "picoampere 'currents' (bug: reverse-bias already reports it)", raises=AssertionError)
 def test_reversed_led_is_not_a_headroom_finding(tmp_path: Path) -> None:
     b = Board("reversed", "supply-headroom fixture")
     b.resistor("R1", "330", "+12V", "Net-(D1-K)")
@@ -72,9 +70,6 @@ def test_reversed_led_is_not_a_headroom_finding(tmp_path: Path) -> None:
     assert [f.rule for f in result.findings] == ["reverse-bias"]
 
 
-@pytest.mark.xfail(reason="for LEDs sharing a resistor the message's low-corner current is the starved LED's "
-                          "least current over every corner, while its ratio is from the low corner alone "
-                          "(bug: 'D1 drops to 861 nA, 40.2 % of its 10.2 mA nominal')", raises=AssertionError)
 def test_bank_low_current_and_ratio_agree(tmp_path: Path) -> None:
     b = Board("bank", "supply-headroom fixture")
     b.resistor("R1", "39", "+3V3", "/BANK", footprint="Resistor_SMD:R_1206_3216Metric")
@@ -83,10 +78,3 @@ def test_bank_low_current_and_ratio_agree(tmp_path: Path) -> None:
     f = only(run_board(b, tmp_path, SAGGING), "supply-headroom")
     assert value(f, "low").value == pytest.approx(value(f, "ratio").value * value(f, "nominal").value, rel=1e-3)
 
-
-@pytest.mark.xfail(reason="the rule's documented example is wrong: a white LED on +3V3 through 15 Ω is not "
-                          "'nominal about 10 mA'; Ohm's law gives (3.3 − 3.0) V / 15 Ω = 20 mA with the built-in "
-                          "3.0 V white, and the checker says 22.8 mA", raises=AssertionError)
-def test_documented_example(tmp_path: Path) -> None:
-    f = only(run_board(lamp("+3V3", "15", "white"), tmp_path, ""), "supply-headroom")
-    assert value(f, "nominal").value == pytest.approx(0.010, rel=0.2)

