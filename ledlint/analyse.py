@@ -300,9 +300,6 @@ class _Analyser:
         plans = []
         for (src, ret, ks), sup in zip(problems, supplies):
             supply, r_pin = sup  # type: ignore[misc]
-            if r_pin.maximum > 0:
-                assumptions.append(f"controller pin output resistance {r_pin.minimum:g}-{r_pin.maximum:g} Ω "
-                                   "(typical GPIO at 20 mA, field-facts §9, common practice)")
             leds, res = [branch_leds[k] for k in ks], [branch_res[k] for k in ks]
             ebranches = tuple(EBranch(tuple(self.ctx.led_spec(p) for p in ps), _resistance(rs))
                               for ps, rs in zip(leds, res))

@@ -23,7 +23,6 @@ class Technology:
     vf_max: float
     tc: float  # dVf/dT at constant current, V/K
     n: float  # ideality factor for the Shockley fit
-    source: str
 
 
 # Vf typ / max at 20 mA. Sources (field-facts.md): robot.lk "5mm LED typical technical data"
@@ -34,15 +33,15 @@ class Technology:
 # InGaN (Khanna, Fundamentals of Solid-State Lighting, eq. 14.1). Ideality: n ≈ 2 for AlInGaP,
 # GaAsP and GaP, and within 2-7 for InGaN (Shah et al., J. Appl. Phys. 94, 2627), taken as 3.
 TECHNOLOGIES: dict[str, Technology] = {
-    "infrared": Technology("infrared", 1.30, 1.60, -0.0015, 2.0, "field-facts §5a, from memory"),
-    "red": Technology("red", 1.85, 2.50, -0.002, 2.0, "field-facts §5a, robot.lk table (super bright red)"),
-    "orange": Technology("orange", 2.05, 2.50, -0.002, 2.0, "field-facts §5a, from memory"),
-    "yellow": Technology("yellow", 2.10, 2.50, -0.002, 2.0, "field-facts §5a, robot.lk table"),
-    "green (GaP)": Technology("green (GaP)", 2.20, 2.50, -0.002, 2.0, "field-facts §5a, robot.lk table"),
-    "green (InGaN)": Technology("green (InGaN)", 3.20, 3.80, -0.003, 3.0, "field-facts §5a, from memory"),
-    "blue": Technology("blue", 3.20, 3.60, -0.003, 3.0, "field-facts §5a, from memory"),
-    "white": Technology("white", 3.00, 3.40, -0.003, 3.0, "field-facts §5a, distributor white LED datasheet"),
-    "ultraviolet": Technology("ultraviolet", 3.40, 4.00, -0.003, 3.0, "field-facts §5a, from memory"),
+    "infrared": Technology("infrared", 1.30, 1.60, -0.0015, 2.0),
+    "red": Technology("red", 1.85, 2.50, -0.002, 2.0),
+    "orange": Technology("orange", 2.05, 2.50, -0.002, 2.0),
+    "yellow": Technology("yellow", 2.10, 2.50, -0.002, 2.0),
+    "green (GaP)": Technology("green (GaP)", 2.20, 2.50, -0.002, 2.0),
+    "green (InGaN)": Technology("green (InGaN)", 3.20, 3.80, -0.003, 3.0),
+    "blue": Technology("blue", 3.20, 3.60, -0.003, 3.0),
+    "white": Technology("white", 3.00, 3.40, -0.003, 3.0),
+    "ultraviolet": Technology("ultraviolet", 3.40, 4.00, -0.003, 3.0),
 }
 # "Green" alone does not say which: GaP (≈2.2 V) and InGaN (≈3.2 V) are both common.
 AMBIGUOUS_GREEN = "green"

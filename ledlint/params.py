@@ -39,7 +39,7 @@ class Param:
 
     value: float
     origin: Origin
-    detail: str  # e.g. "field Vf = '2.1V@20mA'" or "red LED table (field-facts §5a)"
+    detail: str  # e.g. "field Vf = '2.1V@20mA' on D1" or "maximum of a red LED, built-in table"
 
     @property
     def assumed(self) -> bool:

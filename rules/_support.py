@@ -12,7 +12,7 @@ from ledlint.params import Missing, Origin, Param
 def assumed_param(name: str, p: Param | Missing | None, unit: str = "") -> list[str]:
     """'D3 Vf max 2.5 V: maximum of a red LED, built-in table' when the netlist did not state it."""
     if isinstance(p, Param) and p.origin in (Origin.DEFAULT, Origin.FOOTPRINT):
-        return [f"{name} {p.describe(unit)}"]
+        return [f"{name}{'' if name.endswith('±') else ' '}{p.describe(unit)}"]
     return []
 
 

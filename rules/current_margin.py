@@ -28,8 +28,8 @@ Formula
     worst > If_max.
 
 Source
-    75-80 % of the absolute maximum for indicator LEDs: common practice (field-facts §5b).
-    Ohm's law; the Shockley diode equation with series resistance (field-facts §5c).
+    Running indicator LEDs at 75-80 % of their absolute maximum current is common practice (no
+    standard sets it). Ohm's law; the Shockley diode equation with series resistance.
 """
 
 from __future__ import annotations

@@ -26,9 +26,9 @@ Formula
     boost: Σ Vf,max ≤ V_out,max and Σ Vf,min > V_in,max.
 
 Source
-    Headroom structure of linear sinks and buck/boost drivers (field-facts §10; common
-    practice, with the published boost rule "at least 2 V greater than the maximum LED string
-    voltage + the maximum headroom" quoted there).
+    The headroom of linear sinks and of buck and boost drivers is common practice; one boost
+    LED-driver application report states it as "at least 2 V greater than the maximum LED
+    string voltage + the maximum headroom at LED sink pins".
 """
 
 from __future__ import annotations

@@ -24,9 +24,9 @@ Formula
     sinking, at the worst corner, with the pin's output resistance R_pin (40-65 Ω assumed).
 
 Source
-    Per-pin ratings of 8-25 mA and absolute maxima of 20-40 mA (field-facts §9, published
-    microcontroller datasheets, summarised there as common practice); the output-resistance
-    model is field-facts §9's derivation.
+    Microcontroller datasheets rate I/O pins at 8-25 mA with absolute maxima of 20-40 mA, and
+    give V_OH / V_OL at 20 mA, from which the 40-65 Ω output resistance follows (common
+    practice; a maker's own part may differ, so give `pin_current_max`).
 """
 
 from __future__ import annotations

@@ -27,9 +27,9 @@ Formula
     category temperature (155 °C for thick and metal film).
 
 Source
-    IEC 60115-1 rated dissipation at 70 °C and the linear derating to the upper category
-    temperature (field-facts §4). The 50 % design factor: common in-house practice
-    (field-facts §4, a resistor maker's article and a derating newsletter).
+    IEC 60115-1 (fixed resistors, generic specification): rated dissipation at 70 °C, derated
+    linearly to zero at the upper category temperature. The 50 % design factor is common
+    in-house practice (resistor makers' application notes and derating guides say the same).
 """
 
 from __future__ import annotations

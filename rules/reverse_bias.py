@@ -24,8 +24,8 @@ Formula
     reversed string the whole supply is taken to fall on one LED (leakage decides which).
 
 Source
-    Reverse-voltage rating 5 V as the IR leakage test condition, "not designed for reverse
-    operation" (field-facts §5b).
+    LED datasheets give the reverse voltage (usually 5 V) only as the leakage test condition
+    and state that the device "is not designed for reverse operation" (common practice).
 """
 
 from __future__ import annotations

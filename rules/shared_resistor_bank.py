@@ -29,9 +29,9 @@ Formula
     Vf max, highest supply, lowest R).
 
 Source
-    Current hogging: field-facts §7 (an LED application brief quoted there; LEDs Magazine,
-    "Avoiding thermal runaway when driving multiple LED strings", 2009). The δ / r_d
-    relation is derived from the Shockley equation (common practice, field-facts §7).
+    Current hogging of parallel LEDs: LED makers' application briefs, and LEDs Magazine, "LED
+    Design Forum: Avoiding thermal runaway when driving multiple LED strings" (2009). The
+    δ / r_d relation follows from the Shockley equation (common practice).
 """
 
 from __future__ import annotations

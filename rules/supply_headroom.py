@@ -27,8 +27,8 @@ Formula
     at its maximum Vf and the coldest ambient.
 
 Source
-    Ohm's law with the Shockley model (field-facts §5c); "ballast drop must be large compared
-    with the Vf shift" (field-facts §6, derived there; common practice).
+    Ohm's law with the Shockley diode equation; that the ballast drop must be large against
+    the Vf shift it is to absorb is common practice.
 """
 
 from __future__ import annotations

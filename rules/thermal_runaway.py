@@ -24,8 +24,9 @@ Formula
     The steady-state disturbance is amplified by 1 / (1 − G).
 
 Source
-    Stability criterion dP/dTj < 1/Rth (a textbook example quoted in field-facts §6); the
-    closed form for an LED on a voltage source through R is derived in field-facts §6.
+    The thermal-stability criterion dP/dTj < 1/Rth of power-electronics textbooks (worked as
+    "Thermal stability" examples there); the closed form for an LED on a voltage source
+    through R follows from a linear Vf(I, Tj) model (common practice).
 """
 
 from __future__ import annotations

@@ -24,8 +24,8 @@ Formula
     limits it (Shockley model with series resistance).
 
 Source
-    The Shockley diode equation (field-facts §5c); field-facts §6 ("the same LED straight
-    on a rail (R = 0) ... ±0.1 V of Vf spread moves the current by ±100 mA", derived there).
+    The Shockley diode equation with series resistance: with no ballast, a 0.1 V spread of Vf
+    moves a power LED's current by some 100 mA (common practice).
 """
 
 from __future__ import annotations

@@ -54,11 +54,13 @@ def row(path: str, a: Analysis) -> CircuitRow:
     note = _NOT_ANALYSED.get(c.kind, c.reason if c.kind is CircuitKind.UNRECOGNISED else "")
     if c.blocked:
         note = f"never conducts: {c.blocked}"
+    elif a.solved and a.supply is not None and a.supply.volts.maximum <= 0:
+        current, power, note = None, None, "reversed: never conducts"
     elif not a.solved and a.missing:
         note = "not computed: " + "; ".join(dict.fromkeys(m.name for m in a.missing)) + " unknown"
+    headroom = a.headroom_v if a.solved and current is not None else None
     return CircuitRow(path, c.id, c.kind.value, c.leds, ballast, c.source.net if c.source else None,
-                      c.ret.net if c.ret else None, current, power, a.headroom_v if a.solved else None,
-                      a.solved, note)
+                      c.ret.net if c.ret else None, current, power, headroom, a.solved and current is not None, note)
 
 
 def rows(result: RunResult) -> list[CircuitRow]:

@@ -13,6 +13,10 @@ from ledlint.findings import Finding, Severity, quantity
 from ledlint.report.circuits import CircuitRow, row
 from ledlint.run import FileResult, RunResult
 
+# Short names for the circuit table; the JSON and SARIF use the kinds' full names.
+_SHORT = {"series-string": "string", "shared-resistor-bank": "bank", "current-sink": "sink",
+          "constant-current-driver": "driver", "addressable": "addressable", "multiplexed": "multiplexed",
+          "not-fitted": "not fitted", "unrecognised": "unrecognised"}
 _STYLE = {Severity.ERROR: "bold red", Severity.WARNING: "bold yellow", Severity.INFO: "cyan"}
 SAFETY = ("Mains and high-voltage LED circuits can kill. These findings are a review aid, not a safety "
           "assessment: follow the applicable safety standards and local codes, and have the design "
@@ -60,14 +64,14 @@ def _short(text: str, limit: int = 48) -> str:
 def _circuit_table(rows: list[CircuitRow]) -> Table:
     table = Table(show_edge=False, pad_edge=False, box=None, header_style="bold")
     for name in ("circuit", "kind", "LEDs", "supply → return", "ballast", "I nom", "I range", "P max", "headroom"):
-        table.add_column(name, no_wrap=name in ("circuit", "I nom", "I range", "P max", "headroom"))
+        table.add_column(name, no_wrap=name in ("circuit", "kind", "ballast", "I nom", "I range", "P max", "headroom"))
     for r in rows:
         leds = ", ".join(r.leds) if len(r.leds) <= 3 else f"{r.leds[0]} … ({len(r.leds)})"
         if r.current is None:
             nom, rng = "—", escape(_short(r.note)) if r.note else "—"
         else:
             nom, rng = _amps(r.current[0]), f"{_amps(r.current[1])} – {_amps(r.current[2])}"
-        table.add_row(r.id, r.kind, leds, escape(f"{r.supply_net or '?'} → {r.return_net or '?'}"),
+        table.add_row(r.id, _SHORT.get(r.kind, r.kind), leds, escape(f"{r.supply_net or '?'} → {r.return_net or '?'}"),
                       ", ".join(r.ballast) or "—", nom, rng,
                       "—" if r.resistor_power_w is None else quantity(r.resistor_power_w, "W"),
                       "—" if r.headroom_v is None else quantity(r.headroom_v, "V"))
