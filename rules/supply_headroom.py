@@ -72,7 +72,9 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
         need = string_v + 1.0
         hint = (f"use a supply of at least {quantity(need, 'V')} (1 V across the ballast at the low corner), "
                 "fewer LEDs in series, a lower-Vf LED, or a constant-current driver")
-        yield ctx.finding(a, severity, template, values=values, hint=hint, leds=ids(a.circuit.leds), led=low.id,
+        # LEDs each lit alone by their own pin are separate circuits for headroom: name the one.
+        who = low.id if a.circuit.individually_driven else ids(a.circuit.leds)
+        yield ctx.finding(a, severity, template, values=values, hint=hint, leds=who, led=low.id,
                           assumed=tuple(x for r in a.leds for x in led_assumptions(r)) + tuple(circuit_assumptions(a)))
 
 
