@@ -9,24 +9,15 @@ from __future__ import annotations
 import subprocess
 import sys
 import tempfile
-import time
 from pathlib import Path
 
 import sexpdata
 
 sys.path.insert(0, str(Path(__file__).parent))
-from generate import netlist  # noqa: E402
+from generate import best_of, netlist  # noqa: E402
 
 from ledlint.run import check  # noqa: E402
 
-
-def best_of(runs: int, fn) -> float:
-    times = []
-    for _ in range(runs):
-        start = time.perf_counter()
-        fn()
-        times.append(time.perf_counter() - start)
-    return min(times)
 
 
 def main() -> None:

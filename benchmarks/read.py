@@ -8,24 +8,15 @@ from __future__ import annotations
 
 import sys
 import tempfile
-import time
 from pathlib import Path
 
 import sexpdata
 
 sys.path.insert(0, str(Path(__file__).parent))
-from generate import netlist  # noqa: E402
+from generate import best_of, netlist  # noqa: E402
 
 from ledlint.reader import read_netlist  # noqa: E402
 
-
-def best_of(runs: int, fn) -> float:
-    times = []
-    for _ in range(runs):
-        start = time.perf_counter()
-        fn()
-        times.append(time.perf_counter() - start)
-    return min(times)
 
 
 def main() -> None:

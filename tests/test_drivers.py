@@ -10,8 +10,9 @@ import pytest
 
 import board_driver
 from kicad8 import SYMBOLS, Board
+from rulecheck import of_rule, only, run_board, value
 from ledlint.analyse import Analysis
-from ledlint.findings import Finding, Severity, Value
+from ledlint.findings import Severity
 from ledlint.recognise import CircuitKind, LedCircuit
 from ledlint.run import FileResult, check
 from paths import SAMPLES
@@ -55,11 +56,7 @@ R_TOL = 0.05
 
 
 def run(board: Board, folder: Path, config: str = BASE_CONFIG) -> FileResult:
-    net = folder / f"{board.name}.net"
-    net.write_text(board.text(), encoding="utf-8")
-    toml = folder / "ledlint.toml"
-    toml.write_text(config, encoding="utf-8")
-    return check([net], config_path=str(toml)).files[0]
+    return run_board(board, folder, config)
 
 
 def analysis(result: FileResult, led: str) -> Analysis:
@@ -68,20 +65,6 @@ def analysis(result: FileResult, led: str) -> Analysis:
 
 def circuit(result: FileResult, led: str) -> LedCircuit:
     return analysis(result, led).circuit
-
-
-def of_rule(result: FileResult, rule: str) -> list[Finding]:
-    return [f for f in result.findings if f.rule == rule]
-
-
-def only(result: FileResult, rule: str) -> Finding:
-    found = of_rule(result, rule)
-    assert len(found) == 1, [(f.rule, f.refs, f.message) for f in result.findings]
-    return found[0]
-
-
-def value(finding: Finding, name: str) -> Value:
-    return next(v for v in finding.values if v.name == name)
 
 
 def loud(result: FileResult) -> list[tuple[str, str]]:

@@ -4,7 +4,6 @@ from __future__ import annotations
 
 from pathlib import Path
 
-import pytest
 from kicad8 import Board
 from rulecheck import of_rule, only, run_board
 

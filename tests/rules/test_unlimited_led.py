@@ -4,7 +4,6 @@ from __future__ import annotations
 
 from pathlib import Path
 
-import pytest
 from kicad8 import Board
 from rulecheck import N_MAX, RS_MAX, current_bounds, line_of, of_rule, only, run_board, shockley_current, value
 
