@@ -22,7 +22,7 @@ from ledlint.units import (Quantity, parse_current, parse_power, parse_temperatu
 CONFIG_NAME = "ledlint.toml"
 
 # Part parameters, by the names a schematic field carries too (matched without case).
-LED_KEYS = ("Vf", "Vf_min", "Vf_max", "If_max", "Vr_max", "Rth", "colour")
+LED_KEYS = ("Vf", "Vf_min", "Vf_max", "If_max", "Vr_max", "Rth", "Tj_max", "colour")
 RESISTOR_KEYS = ("Tolerance", "Power")
 PIN_KEYS = ("pin_current_max",)
 DRIVER_KEYS = ("driver", "sense_pins", "output_pin", "vref", "vref_tolerance", "current", "current_tolerance",
@@ -33,7 +33,7 @@ DRIVER_KINDS = ("linear", "buck", "boost", "two-terminal")
 _VOLTAGE = ("Vf_min", "Vf_max", "Vr_max", "vref", "dropout", "vin_min", "vin_max", "vout_max")
 _CURRENT = ("If_max", "current", "current_max", "pin_current_max")
 _TOLERANCE = ("Tolerance", "vref_tolerance", "current_tolerance")
-_DIE_KEY = re.compile(r"^(Vf|Vf_min|Vf_max|If_max|Vr_max|Rth|colour)_([A-Za-z0-9]{1,2})$")
+_DIE_KEY = re.compile(r"^(Vf|Vf_min|Vf_max|If_max|Vr_max|Rth|Tj_max|colour)_([A-Za-z0-9]{1,2})$")
 WAIVER_FIELD = "ledlint_waive"  # a schematic field: "rule-id[, rule-id]: reason"
 SEVERITIES = ("error", "warning", "info", "off")
 
@@ -151,6 +151,7 @@ def _part_value(key: str, value: Any, where: str, path: str) -> str:
         **{k: (parse_voltage, '"2.1V"') for k in _VOLTAGE}, **{k: (parse_current, '"20mA"') for k in _CURRENT},
         **{k: (parse_tolerance, '"5%"') for k in _TOLERANCE}, "Vf": (parse_vf, '"2.0V@20mA"'),
         "Power": (parse_power, '"0.25W"'), "Rth": (parse_thermal_resistance, '"400K/W"'),
+        "Tj_max": (parse_temperature, '"125°C"'),
     }
     if base in grammar:
         parse, example = grammar[base]

@@ -18,7 +18,7 @@ from ledlint.ledtypes import (AMBIGUOUS_GREEN, INDICATOR_IF_MAX, INDICATOR_RTH, 
 from ledlint.model import Component
 from ledlint.rails import RailKind, rail_from_net_name
 from ledlint.ratings import rating_from_footprint
-from ledlint.units import (Quantity, Unknown, parse_current, quantity, parse_power, parse_resistance,
+from ledlint.units import (Quantity, Unknown, parse_current, parse_power, parse_resistance, parse_temperature, quantity,
                            parse_thermal_resistance, parse_tolerance, parse_vf, parse_voltage)
 
 
@@ -151,6 +151,10 @@ def resistor_params(component: Component, config: Config) -> ResistorParams:
 
 # ---------------------------------------------------------------- LEDs
 
+# Maximum junction temperature when the datasheet's is not given: LED ratings run from 110 °C
+# (through-hole lamps) to 150 °C (ceramic power emitters) (field-facts §5b); 125 °C between.
+TJ_MAX = 125.0
+
 @dataclass(frozen=True)
 class LedParams:
     """One die's parameters. `vf` is at `i_test`, 25 °C."""
@@ -166,6 +170,7 @@ class LedParams:
     if_max_upper: float | None  # for an assumed rating: the top of the package class's range
     vr_max: Param
     rth: Param | None
+    tj_max: Param  # °C, the most the junction may reach
     tc: Param
     n: float
     r_s: float
@@ -261,11 +266,14 @@ def led_params(component: Component, config: Config, die: str = "") -> LedParams
     rth = _quantity(component, config, _die_key("Rth", die), parse_thermal_resistance, bad)
     if rth is None and is_indicator_footprint(component.footprint):
         rth = Param(INDICATOR_RTH, Origin.DEFAULT, "typical of a small indicator package")
+    tj_max = _quantity(component, config, _die_key("Tj_max", die), parse_temperature, bad) or \
+        Param(TJ_MAX, Origin.DEFAULT, "a common LED junction rating (110-150 °C)")
     tc = Param(tech.tc if tech else -0.002, Origin.DEFAULT, f"{tech.name if tech else 'general'} LED")
     rating = if_max.value if isinstance(if_max, Param) else i_test.value * 1.5
     return LedParams(
         ref=component.ref, die=die, technology=tech.name if tech else (colour or ""), vf=vf, vf_min=vf_min,
-        vf_max=vf_max, i_test=i_test, if_max=if_max, if_max_upper=if_upper, vr_max=vr_max, rth=rth, tc=tc,
+        vf_max=vf_max, i_test=i_test, if_max=if_max, if_max_upper=if_upper, vr_max=vr_max, rth=rth, tj_max=tj_max,
+        tc=tc,
         n=tech.n if tech else 2.0, r_s=series_resistance(rating),
         ambiguity=ambiguity if not isinstance(vf, Param) or vf.origin is Origin.DEFAULT else "",
         unreadable=tuple(bad),

@@ -51,7 +51,7 @@ def test_stiff_rail_small_ballast_is_a_warning(tmp_path: Path) -> None:
     """+3V3 through 1 Ω: 0.1 V of ballast drop against a Vf that falls 3 mV for every kelvin."""
     board = spot("+3V3", "1")
     result = run_board(board, tmp_path, AMBIENT)
-    f = only(result, "thermal-runaway")
+    f = next(x for x in of_rule(result, "thermal-runaway") if "loop gain" in x.message)
     assert f.severity is Severity.WARNING
     assert f.refs == ("D1", "R1") and f.nets == ("+3V3", "GND") and f.line == line_of(board, "D1")
     led = next(a for a in result.board.analyses if a.circuit.id == "D1").leds[0]
@@ -68,6 +68,17 @@ def test_stiff_rail_small_ballast_is_a_warning(tmp_path: Path) -> None:
     assert gain.limit == 0.5 and gain.relation == ">=" and gain.value >= 0.5
     # A disturbance is amplified 1/(1 − G) times (field-facts §6).
     assert f"{1 / (1 - gain.value):.2g}×" in f.message
+
+
+def test_junction_past_its_rating(tmp_path: Path) -> None:
+    """The same spot: self-heating runs the junction far past any LED's rating."""
+    result = run_board(spot("+3V3", "1"), tmp_path, AMBIENT)
+    f = next(x for x in of_rule(result, "thermal-runaway") if "junction reaches" in x.message)
+    led = next(a for a in result.board.analyses if a.circuit.id == "D1").leds[0]
+    # Tj = Ta + Rth·P at the worst corner (field-facts §6), against the default 125 °C: LED
+    # junction ratings run 110-150 °C (field-facts §5b); a default lowers it to info.
+    assert value(f, "tj").value == pytest.approx(led.tj_max) and led.tj_max > 125.0
+    assert value(f, "tj_max").value == 125.0 and f.severity is Severity.INFO
 
 
 def test_fixed_twin_with_a_real_ballast(tmp_path: Path) -> None:
