@@ -63,8 +63,8 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
 
 def _too_hot(ctx: RuleContext, a) -> Iterator[Finding]:
     """A junction that self-heating takes past its rating at the worst corner."""
-    if not a.solved:
-        return
+    if not a.solved or a.unlimited:
+        return  # with nothing limiting the current, unlimited-led already says it all
     hot = [r for r in a.leds if r.params.rth is not None and r.tj_max > r.params.tj_max.value]
     if not hot:
         return

@@ -7,7 +7,7 @@ from pathlib import Path
 
 import pytest
 from kicad8 import Board
-from rulecheck import K_OVER_Q, ZERO_CELSIUS, line_of, of_rule, only, run_board, thermal_voltage, value
+from rulecheck import K_OVER_Q, ZERO_CELSIUS, line_of, of_rule, run_board, thermal_voltage, value
 
 from ledlint.findings import Severity
 
