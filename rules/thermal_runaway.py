@@ -37,6 +37,7 @@ from __future__ import annotations
 from typing import Iterator
 
 from ledlint.findings import Finding, Severity, Value
+from ledlint.params import Param
 from ledlint.registry import Option, Rule, RuleContext
 from ledlint.rules._support import assumed_param, by_evidence, circuit_assumptions, ids
 
@@ -65,7 +66,10 @@ def _too_hot(ctx: RuleContext, a) -> Iterator[Finding]:
     """A junction that self-heating takes past its rating at the worst corner."""
     if not a.solved or a.unlimited:
         return  # with nothing limiting the current, unlimited-led already says it all
-    hot = [r for r in a.leds if r.params.rth is not None and r.tj_max > r.params.tj_max.value]
+    # An LED driven past its If_max is current-margin's finding; a junction too hot within the
+    # current rating (a poor heat path) is the one to add.
+    hot = [r for r in a.leds if r.params.rth is not None and r.tj_max > r.params.tj_max.value
+           and not (isinstance(r.params.if_max, Param) and r.current.maximum > r.params.if_max.value)]
     if not hot:
         return
     led = max(hot, key=lambda r: r.tj_max - r.params.tj_max.value)

@@ -42,9 +42,6 @@ DESIGNED = {
         ("shared-resistor-bank", ERROR, ("D10", "D11", "D12", "D13", "D14", "D15", "R4")),
         ("current-margin", ERROR, ("D10", "D11", "D12", "D13", "D14", "D15", "R4")),
         ("thermal-runaway", WARNING, ("D10", "D11", "D12", "D13", "D14", "D15", "R4")),
-        # ... and self-heating takes their junctions past the default 125 °C (an info: the
-        # rating is only the default).
-        ("thermal-runaway", INFO, ("D10", "D11", "D12", "D13", "D14", "D15", "R4")),
         ("resistor-overload", ERROR, ("R4",)),
         # Courtesy light: four LEDs straight across +12V.
         ("unlimited-led", ERROR, ("D16", "D17", "D18", "D19")),

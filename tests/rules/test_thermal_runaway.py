@@ -71,12 +71,17 @@ def test_stiff_rail_small_ballast_is_a_warning(tmp_path: Path) -> None:
 
 
 def test_junction_past_its_rating(tmp_path: Path) -> None:
-    """The same spot: self-heating runs the junction far past any LED's rating."""
-    result = run_board(spot("+3V3", "1"), tmp_path, AMBIENT)
+    """A 1 W LED within its current rating but on a poor heat path (130 K/W)."""
+    b = Board("hot", "thermal fixture")
+    b.resistor("R1", "4R7", "+5V", "Net-(D1-A)", footprint="Resistor_SMD:R_2512_6332Metric")
+    b.led("D1", "white", "Net-(D1-A)", "GND", footprint="LED_SMD:LED_Cree-XHP35", Vf="3.0V@350mA",
+          If_max="1.5A", Rth="130K/W")
+    result = run_board(b, tmp_path, AMBIENT)
     f = next(x for x in of_rule(result, "thermal-runaway") if "junction reaches" in x.message)
     led = next(a for a in result.board.analyses if a.circuit.id == "D1").leds[0]
-    # Tj = Ta + Rth·P at the worst corner (field-facts §6), against the default 125 °C: LED
-    # junction ratings run 110-150 °C (field-facts §5b); a default lowers it to info.
+    assert led.current.maximum < 1.5  # within If_max: the heat path, not the current, is at fault
+    # Tj = Ta + Rth·P (field-facts §6) at the worst corner, P = Vf·I all heat: well past the
+    # default 125 °C (LED junction ratings run 110-150 °C, field-facts §5b); a default lowers it.
     assert value(f, "tj").value == pytest.approx(led.tj_max) and led.tj_max > 125.0
     assert value(f, "tj_max").value == 125.0 and f.severity is Severity.INFO
 
