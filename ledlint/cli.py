@@ -4,28 +4,37 @@ from __future__ import annotations
 
 import argparse
 import glob
+import importlib
 import os
 import sys
 import tempfile
 import traceback
 from pathlib import Path
+from types import ModuleType
 from typing import Callable, Sequence
 
-from ledlint import __version__, baseline, diff
+from ledlint import __version__
 from ledlint.errors import LedlintError
 from ledlint.registry import rule_doc
-from ledlint.report import github, json_doc, markdown, sarif, text
 from ledlint.run import FAIL_LEVELS, RunResult, check, load_rules
 
 EXIT_CLEAN, EXIT_FINDINGS, EXIT_BAD_INPUT, EXIT_INTERNAL = 0, 1, 2, 3
 
-FORMATS: dict[str, Callable[..., str]] = {
-    "text": text.render,
-    "json": json_doc.render,
-    "sarif": sarif.render,
-    "github": github.render,
-    "markdown": markdown.render,
+# Format name → the module whose render(result) writes it; imported only when asked for, so a
+# check does not pay for the formats it does not print.
+FORMATS: dict[str, str] = {
+    "text": "ledlint.report.text",
+    "json": "ledlint.report.json_doc",
+    "sarif": "ledlint.report.sarif",
+    "github": "ledlint.report.github",
+    "markdown": "ledlint.report.markdown",
 }
+DIFF_FORMATS = ("text", "json", "markdown")  # ledlint.diff.FORMATS; tests/test_cli.py keeps them equal
+BASELINE_NAME = "ledlint-baseline.json"  # ledlint.baseline.DEFAULT_NAME, likewise
+
+
+def _module(name: str) -> ModuleType:
+    return importlib.import_module(name)
 
 
 def find_netlists(paths: Sequence[str]) -> list[Path]:
@@ -66,12 +75,12 @@ def _parser() -> argparse.ArgumentParser:
     b = sub.add_parser("baseline", help="record the current findings, so that later checks count only new ones")
     b.add_argument("paths", nargs="+", metavar="PATH", help="a .net file, a folder or a glob")
     b.add_argument("--config", metavar="FILE", help="use this ledlint.toml instead of searching for one")
-    b.add_argument("--output", "-o", metavar="FILE", default=baseline.DEFAULT_NAME,
-                   help=f"the baseline file to write (default {baseline.DEFAULT_NAME})")
+    b.add_argument("--output", "-o", metavar="FILE", default=BASELINE_NAME,
+                   help=f"the baseline file to write (default {BASELINE_NAME})")
     d = sub.add_parser("diff", help="what changed electrically between two versions of a netlist")
     d.add_argument("old", metavar="OLD", help="the netlist before the change")
     d.add_argument("new", metavar="NEW", help="the netlist after it")
-    d.add_argument("--format", choices=sorted(diff.FORMATS), default="text", help="report format (default text)")
+    d.add_argument("--format", choices=DIFF_FORMATS, default="text", help="report format (default text)")
     d.add_argument("--config", metavar="FILE", help="use this ledlint.toml for both instead of searching")
     d.add_argument("--output", "-o", metavar="FILE", help="write the report to FILE (written whole, or not at all)")
     r = sub.add_parser("rules", help="list the rules")
@@ -127,11 +136,12 @@ def _render(fmt: str, result: RunResult, args: argparse.Namespace) -> str:
     if fmt == "text":
         color = args.output is None and sys.stdout.isatty() and "NO_COLOR" not in os.environ
         width = os.get_terminal_size().columns if color else 100
-        return text.render(result, circuits=args.circuits, color=color, width=width)
-    return FORMATS[fmt](result)
+        return _module(FORMATS["text"]).render(result, circuits=args.circuits, color=color, width=width)
+    return _module(FORMATS[fmt]).render(result)
 
 
 def cmd_check(args: argparse.Namespace) -> int:
+    baseline = _module("ledlint.baseline")
     known = baseline.load(args.baseline) if args.baseline else None
     result = check(find_netlists(args.paths), config_path=args.config, progress=_progress())
     if known is not None:
@@ -145,13 +155,14 @@ def cmd_check(args: argparse.Namespace) -> int:
 
 def cmd_baseline(args: argparse.Namespace) -> int:
     result = check(find_netlists(args.paths), config_path=args.config, progress=_progress())
-    write_whole(baseline.render(result, args.output), args.output)
+    write_whole(_module("ledlint.baseline").render(result, args.output), args.output)
     print(f"{args.output}: recorded {len(result.findings)} finding(s) from {len(result.files)} file(s)",
           file=sys.stderr)
     return EXIT_CLEAN
 
 
 def cmd_diff(args: argparse.Namespace) -> int:
+    diff = _module("ledlint.diff")
     write_whole(diff.FORMATS[args.format](diff.diff_files(args.old, args.new, config_path=args.config)), args.output)
     return EXIT_CLEAN
 

@@ -54,3 +54,11 @@ def test_missing_file_unknown_option_and_no_command() -> None:
 def test_empty_folder_is_an_error(tmp_path) -> None:
     r = run("check", str(tmp_path))
     assert r.returncode == 2 and "no *.net files" in r.stderr
+
+
+def test_lazy_format_tables_match_their_modules() -> None:
+    from ledlint import baseline, cli, diff
+
+    assert cli.DIFF_FORMATS == tuple(diff.FORMATS) and cli.BASELINE_NAME == baseline.DEFAULT_NAME
+    for module in cli.FORMATS.values():
+        assert callable(cli._module(module).render)

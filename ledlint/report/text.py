@@ -83,7 +83,7 @@ def _file(console: Console, fr: FileResult, circuits: bool) -> None:
     analysed = sum(a.solved for a in fr.board.analyses)
     leds = sum(len(c.leds) for c in fr.board.circuits)
     console.print(f"[bold]{escape(fr.path)}[/]  {leds} LED(s) in {len(fr.board.circuits)} circuit(s), "
-                  f"{analysed} analysed · {escape(n.tool or 'unknown tool')}")
+                  f"{analysed} analysed · {escape(n.tool or 'unknown tool')}", soft_wrap=True)
     for note in n.notes:
         console.print(f"  [dim]reader note, line {note.line}: {escape(note.message)}[/]")
     if fr.findings:
