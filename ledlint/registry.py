@@ -50,6 +50,11 @@ class RuleContext:
     board: BoardAnalysis
     path: str  # the netlist as the user named it
     options: Mapping[str, float] = field(default_factory=lambda: FrozenMap({}))
+    all_options: Mapping[str, Mapping[str, float]] = field(default_factory=lambda: FrozenMap({}))
+
+    def option_of(self, rule_id: str, name: str, default: float) -> float:
+        """Another rule's option, so that hints agree with that rule (a design factor, a margin)."""
+        return self.all_options.get(rule_id, {}).get(name, default)
 
     @property
     def analyses(self) -> tuple[Analysis, ...]:
@@ -118,7 +123,8 @@ def run_rules(rules: tuple[Rule, ...], board: BoardAnalysis, path: str, rule_set
         override = rule_settings.severity.get(rule.id, "")
         if override == "off":
             continue
-        ctx = RuleContext(rule, board, path, rule_settings.options.get(rule.id, FrozenMap({})))
+        ctx = RuleContext(rule, board, path, rule_settings.options.get(rule.id, FrozenMap({})),
+                          rule_settings.options)
         for f in rule.check(ctx):
             if override:
                 f = replace(f, severity=Severity(override))

@@ -10,11 +10,14 @@ import math
 from dataclasses import dataclass, replace
 from functools import lru_cache
 
+import numpy as np
+
 from ledlint.analyse import Analysis
-from ledlint.engine import Circuit, Range, monte_carlo
+from ledlint.engine import Circuit, Range, corners, monte_carlo
 from ledlint.engine.corners import ballast_scan
 from ledlint.eseries import ESeries, nearest_above, series_values
 from ledlint.ratings import chip_for, derated_power
+from ledlint.recognise import CircuitKind
 
 _SEED = 1  # a fixed Monte Carlo seed: the same hint every run
 
@@ -22,10 +25,19 @@ _SEED = 1  # a fixed Monte Carlo seed: the same hint every run
 @dataclass(frozen=True)
 class BallastFix:
     resistance: float  # ohm, an E24 value
+    per_string: bool  # one resistor in each string (a bank split up), or the one common ballast
     current_max: float  # A, the worst LED at the worst corner with it
-    power_max: float  # W in the ballast at its worst corner
+    power_max: float  # W in one such resistor at its worst corner
     rating: float  # W at 70 °C the part needs (design factor and derating applied)
     chip: str  # smallest common chip size with that rating, "" when larger than 2512
+    low_ratio: float  # least current at the low corner over nominal, with it
+
+
+@dataclass(frozen=True)
+class NoBallast:
+    """Why no resistor value can bring the circuit inside its limits."""
+
+    reason: str
 
 
 def _tolerance(r: Range) -> float:
@@ -38,21 +50,38 @@ def _required_rating(power: float, design_factor: float, ambient_max: float, upp
     return power / (design_factor * derate) if derate > 0 else float("inf")
 
 
-def ballast_for(analysis: Analysis, current_limit: float, *, design_factor: float = 0.5,
-                upper_category_c: float = 155.0) -> BallastFix | None:
-    """The smallest E24 common ballast keeping every LED at or under `current_limit` in every corner."""
-    if not analysis.engine or analysis.set_current is not None:
+def _strings(analysis: Analysis) -> tuple[list[Circuit], bool]:
+    """The circuits a ballast is sized for: each string on its own when the LEDs share one."""
+    if analysis.circuit.kind is CircuitKind.BANK and not analysis.circuit.individually_driven:
+        ec = analysis.engine[0]
+        return [replace(ec, branches=(replace(b, r=Range.fixed(0.0)),), r_series=Range.tolerance(0.0, 0.05))
+                for b in ec.branches], True
+    return list(analysis.engine), False
+
+
+def ballast_fix(analysis: Analysis, current_limit: float, *, design_factor: float = 0.5,
+                dead_ratio: float = 0.1, upper_category_c: float = 155.0) -> BallastFix | NoBallast | None:
+    """The smallest E24 ballast that keeps every LED at or under `current_limit` in every corner; for
+    LEDs sharing one resistor, the resistor each string should have instead. NoBallast when even
+    then the low corner would leave under `dead_ratio` of the nominal current (the supply is too
+    close to the string's Vf for any resistor). None when there is nothing to size."""
+    if not analysis.engine or analysis.set_current is not None or current_limit <= 0:
         return None
-    fixes = [_size(ec, current_limit) for ec in analysis.engine]  # several when each string is lit alone
-    if not fixes or any(f is None for f in fixes):
+    circuits, per_string = _strings(analysis)
+    fixes = [_size(ec, current_limit) for ec in circuits]
+    if any(f is None for f in fixes):
         return None
     best = max(fixes, key=lambda f: f.resistance)  # type: ignore[union-attr]
+    low = min(f.low_ratio for f in fixes)  # type: ignore[union-attr]
+    if low < dead_ratio:
+        return NoBallast(f"no resistor value fixes it: with the supply at its least and every LED at its "
+                         f"highest Vf only {low:.0%} of the nominal current would flow; use fewer LEDs per "
+                         "string, a higher supply, or a constant-current driver")
     # P ≈ V²/R falls as R rises, so each string's own worst dissipation bounds it at the larger R.
     power = max(f.power_max for f in fixes)  # type: ignore[union-attr]
-    ambient = analysis.engine[0].ambient.maximum
-    rating = _required_rating(power, design_factor, ambient, upper_category_c)
+    rating = _required_rating(power, design_factor, circuits[0].ambient.maximum, upper_category_c)
     chip = chip_for(rating)
-    return replace(best, power_max=power, rating=rating, chip=chip[0] if chip else "")
+    return replace(best, per_string=per_string, power_max=power, rating=rating, chip=chip[0] if chip else "")
 
 
 def _candidates(start: float, decades: int) -> list[float]:
@@ -66,19 +95,34 @@ def _candidates(start: float, decades: int) -> list[float]:
 
 @lru_cache(maxsize=4096)
 def _size(ec: Circuit, limit: float) -> BallastFix | None:
-    """Smallest E24 ballast keeping every LED at or under `limit`; memoised, as boards repeat circuits."""
+    """Smallest E24 ballast keeping every LED at or under `limit`; memoised, as boards repeat circuits.
+
+    The worst current falls as the ballast grows, so the E24 values are bisected: a handful of
+    solves, each over the current-raising corners only.
+    """
     tol = _tolerance(ec.r_series)
-    # Ohm's law with the LEDs at their lowest Vf gives the scale; every E24 value over two
-    # decades from half of it is tried in one solve.
     assert ec.supply is not None
-    string = sum(led.vf.minimum for led in ec.branches[0].leds)
+    string = max(sum(led.vf.minimum for led in b.leds) for b in ec.branches)
     estimate = max((ec.supply.maximum - string) / limit, ec.r_series.nominal, 1.0)
-    candidates = _candidates(estimate * 0.5, 2)
-    peaks, powers = ballast_scan(ec, candidates, 1.0 - tol, 1.0 + tol)
-    for r, peak, power in zip(candidates, peaks, powers):
-        if peak <= limit:
-            return BallastFix(r, float(peak), float(power), 0.0, "")
-    return None
+    candidates = _candidates(estimate * 0.5, 3)
+
+    def peak(r: float) -> float:
+        return float(ballast_scan(ec, [r], 1.0 - tol, 1.0 + tol)[0][0])
+
+    lo, hi = 0, len(candidates) - 1
+    if peak(candidates[hi]) > limit:
+        return None
+    while lo < hi:
+        mid = (lo + hi) // 2
+        if peak(candidates[mid]) <= limit:
+            hi = mid
+        else:
+            lo = mid + 1
+    r = candidates[lo]
+    cor = corners(replace(ec, r_series=Range.tolerance(r, tol)))
+    nominal = np.maximum(cor.nominal.led_current, 1e-15)
+    ratio = float((cor.min_current.led_current / nominal).min())
+    return BallastFix(r, False, float(cor.led_current_max.max()), cor.ballast_power_max, 0.0, "", ratio)
 
 
 def equal_share_resistor(supply_nominal: float, vf_typical: float, current: float) -> float | None:

@@ -5,8 +5,10 @@ from __future__ import annotations
 from typing import Iterable
 
 from ledlint.analyse import Analysis, LedResult, ResistorResult
-from ledlint.findings import Severity
+from ledlint.findings import Severity, quantity
 from ledlint.params import Missing, Origin, Param
+from ledlint.registry import RuleContext
+from ledlint.sizing import NoBallast, ballast_fix
 
 
 def assumed_param(name: str, p: Param | Missing | None, unit: str = "") -> list[str]:
@@ -61,3 +63,35 @@ def join(items: Iterable[str]) -> str:
 def ids(leds: Iterable[LedResult | str]) -> str:
     names = [x if isinstance(x, str) else x.id for x in leds]
     return join(names) if len(names) <= 6 else f"{names[0]} … {names[-1]} ({len(names)} LEDs)"
+
+
+def current_target(ctx: RuleContext, a: Analysis) -> float | None:
+    """The current a fix must keep every LED under: the current-margin share of each known If_max,
+    and the same share of any controller pin's limit."""
+    margin = ctx.option_of("current-margin", "margin", 0.75)
+    limits = [margin * r.params.if_max.value for r in a.leds if isinstance(r.params.if_max, Param)]
+    limits += [margin * p.limit.value for p in a.pins]
+    return min(limits) if limits else None
+
+
+def ballast_hint(ctx: RuleContext, a: Analysis, fallback: str) -> str:
+    """One wording of the ballast fix, sized against every limit at once (see sizing.ballast_fix)."""
+    target = current_target(ctx, a)
+    if target is None:
+        return fallback
+    fix = ballast_fix(a, target, design_factor=ctx.option_of("resistor-overload", "design_factor", 0.5),
+                      dead_ratio=ctx.option_of("supply-headroom", "dead_ratio", 0.1))
+    if isinstance(fix, NoBallast):
+        return fix.reason
+    if fix is None:
+        return fallback
+    size = f"{fix.chip} or larger" if fix.chip else "a power resistor"
+    unit = "LED" if all(len(b.leds) == 1 for b in a.circuit.branches) else "string"
+    what = (f"give each {unit} its own {quantity(fix.resistance, 'Ω')} resistor (E24) instead of the shared one"
+            if fix.per_string else f"use {quantity(fix.resistance, 'Ω')} (E24)")
+    text = (f"{what}: worst case {quantity(fix.current_max, 'A')} (limit {quantity(target, 'A')}), "
+            f"{quantity(fix.power_max, 'W')} in {'each' if fix.per_string else 'it'}, so at least "
+            f"{quantity(fix.rating, 'W')} rated ({size})")
+    if fix.low_ratio < ctx.option_of("supply-headroom", "min_ratio", 0.5):
+        text += f"; at the low corner the current still falls to {fix.low_ratio:.0%} of nominal"
+    return text

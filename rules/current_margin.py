@@ -36,11 +36,12 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ledlint.findings import Finding, Severity, Value, quantity
+from ledlint.findings import Finding, Severity, Value
 from ledlint.params import Param
 from ledlint.registry import Option, Rule, RuleContext
-from ledlint.rules._support import by_evidence, circuit_assumptions, ids, led_assumptions, resistor_assumptions
-from ledlint.sizing import ballast_for
+from ledlint.analyse import Analysis
+from ledlint.rules._support import (ballast_hint, by_evidence, circuit_assumptions, ids, led_assumptions,
+                                    resistor_assumptions)
 
 
 def check(ctx: RuleContext) -> Iterator[Finding]:
@@ -48,6 +49,9 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
     for a in ctx.analyses:
         if not a.solved or a.unlimited:
             continue
+        c = a.circuit
+        if len(c.branches) > 1 and not c.individually_driven:
+            continue  # LEDs sharing a resistor or an output: shared-resistor-bank or driver-parallel-strings
         over = []  # (severity, led) for every LED past the margin; one finding per circuit
         for led in a.leds:
             if_max = led.params.if_max
@@ -80,20 +84,13 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
         assumed_lines = led_assumptions(led, limit=True) + circuit_assumptions(a) + \
             [x for r in a.resistors for x in resistor_assumptions(r)]
         yield ctx.finding(a, severity, template, values=values, assumed=tuple(assumed_lines),
-                          hint=_hint(a, margin * if_max.value), led=led.id, pct=f"{(1 - margin) * 100:.0f} %",
-                          others=ids(others))
+                          hint=_hint(ctx, a), led=led.id, pct=f"{(1 - margin) * 100:.0f} %", others=ids(others))
 
 
-def _hint(a, target: float) -> str:
+def _hint(ctx: RuleContext, a: Analysis) -> str:
     if a.set_current is not None:
-        return (f"lower the set current so the worst string stays under {quantity(target, 'A')}, "
-                "or give each string its own output")
-    fix = ballast_for(a, target)
-    if fix is None:
-        return f"raise the ballast resistance until the worst case is under {quantity(target, 'A')}"
-    size = f"{fix.chip} or larger" if fix.chip else "a power resistor"
-    return (f"use {quantity(fix.resistance, 'Ω')} (E24): worst case {quantity(fix.current_max, 'A')}, "
-            f"{quantity(fix.power_max, 'W')} in the ballast, so at least {quantity(fix.rating, 'W')} rated ({size})")
+        return "lower the set current so the worst case stays inside the margin"
+    return ballast_hint(ctx, a, "raise the ballast resistance until the worst case is inside the margin")
 
 
 RULE = Rule(

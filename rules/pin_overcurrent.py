@@ -33,10 +33,9 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ledlint.findings import Finding, Severity, Value, quantity
+from ledlint.findings import Finding, Severity, Value
 from ledlint.registry import Rule, RuleContext
-from ledlint.rules._support import assumed_param, by_evidence, circuit_assumptions, ids
-from ledlint.sizing import ballast_for
+from ledlint.rules._support import assumed_param, ballast_hint, by_evidence, circuit_assumptions, ids
 
 
 def check(ctx: RuleContext) -> Iterator[Finding]:
@@ -48,10 +47,8 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                 continue
             severity = by_evidence(Severity.ERROR, p.limit.assumed)
             verb = "sources" if p.sourcing else "sinks"
-            fix = ballast_for(a, p.limit.value * 0.75)
-            hint = (f"raise the series resistor to {quantity(fix.resistance, 'Ω')} (E24, worst case "
-                    f"{quantity(fix.current_max, 'A')}) or switch the LED with a transistor" if fix else
-                    "switch the LED with a transistor or a driver")
+            hint = ballast_hint(ctx, a, "switch the LED with a transistor or a driver")
+            hint += "; or switch the LED with a transistor"
             comp = ctx.board.parts.get(p.pin.ref)
             yield ctx.finding(
                 a, severity, "{ic} pin {pin} ({net}) {verb} up to {current} for {leds}, above its limit of {limit}",

@@ -42,7 +42,8 @@ from ledlint.findings import Finding, Severity, Value, quantity
 from ledlint.params import Param
 from ledlint.recognise import CircuitKind
 from ledlint.registry import Rule, RuleContext
-from ledlint.rules._support import by_evidence, circuit_assumptions, ids, join, led_assumptions
+from ledlint.analyse import Analysis
+from ledlint.rules._support import ballast_hint, by_evidence, circuit_assumptions, ids, join, led_assumptions
 from ledlint.sizing import equal_share_resistor
 from ledlint.topology import ElementKind
 
@@ -94,35 +95,27 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
             values.append(Value("if_max", if_max.value, "A"))
             template += ", above its If_max of {if_max}" if over else " (If_max {if_max})"
         yield ctx.finding(a, severity, template, refs=refs, nets=nets, values=tuple(values), who=who, node=c.node,
-                          samples=s.samples, led=s.worst_led, hint=_hint(a),
+                          samples=s.samples, led=s.worst_led, hint=_hint(ctx, a),
                           assumed=tuple(led_assumptions(worst, limit=True) + circuit_assumptions(a)))
 
 
-def _hint(a) -> str:
-    """One resistor per string for today's share (or 75 % of If_max, if that is less); or all in series."""
+def _hint(ctx: RuleContext, a: Analysis) -> str:
+    """One resistor per string, sized against every limit; or all in series when the supply allows."""
     c = a.circuit
-    n = len(c.branches)
-    limits = [r.params.if_max.value for r in a.leds if isinstance(r.params.if_max, Param)]
-    target = min([a.sharing.equal_share] + [0.75 * x for x in limits])
+    hint = ballast_hint(ctx, a, "give each LED its own resistor")
     by_id = {r.id: r for r in a.leds}
     strings = [[by_id[e.id] for e in b.leds] for b in c.branches]
-    string_typ = max(sum(r.params.vf.value for r in st) for st in strings)
     string_max = max(sum(r.params.vf_max.value for r in st) for st in strings)
+    string_typ = max(sum(r.params.vf.value for r in st) for st in strings)
     v = a.supply.volts
-    word = "LED" if all(len(st) == 1 for st in strings) else "string"
-    parts = []
-    each = equal_share_resistor(v.nominal, string_typ, target)
-    if each:
-        parts.append(f"give each {word} its own {quantity(each, 'Ω')} resistor (E24, about "
-                     f"{quantity(target, 'A')} each)")
-    series_v = n * string_max
+    series_v = len(strings) * string_max
     if v.minimum - series_v >= 1.0:
-        r = equal_share_resistor(v.nominal, n * string_typ, target)
+        leds = sum(len(st) for st in strings)
+        r = equal_share_resistor(v.nominal, len(strings) * string_typ, a.sharing.equal_share)
         if r:
-            leds = sum(len(st) for st in strings)
-            parts.append(f"or put all {leds} in series with one {quantity(r, 'Ω')} resistor "
-                         f"(string {quantity(series_v, 'V')} at most, supply {quantity(v.minimum, 'V')} at least)")
-    return "; ".join(parts) or f"give each {word} its own resistor"
+            hint += (f"; or put all {leds} in series with one {quantity(r, 'Ω')} resistor (string "
+                     f"{quantity(series_v, 'V')} at most, supply {quantity(v.minimum, 'V')} at least)")
+    return hint
 
 
 RULE = Rule(

@@ -37,6 +37,7 @@ from typing import Iterator
 
 from ledlint.findings import Finding, Severity, Value, quantity
 from ledlint.registry import Option, Rule, RuleContext
+from ledlint.topology import TerminalKind
 from ledlint.rules._support import by_evidence, circuit_assumptions, ids, is_default, led_assumptions
 
 
@@ -70,8 +71,14 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
             template = ("at the low corner ({supply_min} supply, maximum Vf) {led} drops to {low}, "
                         "{ratio} of its {nominal} nominal; the ballast has only {headroom} to work with")
         need = string_v + 1.0
-        hint = (f"use a supply of at least {quantity(need, 'V')} (1 V across the ballast at the low corner), "
-                "fewer LEDs in series, a lower-Vf LED, or a constant-current driver")
+        c = a.circuit
+        if any(t is not None and t.kind is TerminalKind.PIN for t in (c.source, c.ret)) or c.individually_driven:
+            # A pin's level is its IC's supply: raising one end's rail back-drives the pin.
+            hint = (f"switch the LED with a transistor from a rail of at least {quantity(need, 'V')}, or use a "
+                    "lower-Vf LED")
+        else:
+            hint = (f"use a supply of at least {quantity(need, 'V')} (1 V across the ballast at the low corner), "
+                    "fewer LEDs in series, a lower-Vf LED, or a constant-current driver")
         # LEDs each lit alone by their own pin are separate circuits for headroom: name the one.
         who = low.id if a.circuit.individually_driven else ids(a.circuit.leds)
         yield ctx.finding(a, severity, template, values=values, hint=hint, leds=who, led=low.id,

@@ -58,8 +58,11 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
         yield ctx.finding(a, severity, template, values=(Value("gain", a.loop_gain, "", limit, ">="),),
                           assumed=tuple(assumed + circuit_assumptions(a)), leds=ids(a.circuit.leds),
                           limit=f"{limit:g}", amp=f"{amplification:.2g}",
-                          hint="raise the ballast drop (about 1 V), use a constant-current driver, or lower the "
-                               "LED's thermal resistance")
+                          hint=("give each string its own ballast (the loop is one string taking current from "
+                                "the others: a shared resistor cannot stop it), use a constant-current driver per "
+                                "string, or lower the LEDs' thermal resistance") if len(a.circuit.branches) > 1 else
+                          ("raise the ballast drop (about 1 V across it), use a constant-current driver, or lower "
+                           "the LED's thermal resistance"))
 
 
 def _too_hot(ctx: RuleContext, a) -> Iterator[Finding]:

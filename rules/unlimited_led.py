@@ -32,11 +32,9 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ledlint.findings import Finding, Severity, Value, quantity
-from ledlint.params import Param
+from ledlint.findings import Finding, Severity, Value
 from ledlint.registry import Rule, RuleContext
-from ledlint.rules._support import circuit_assumptions, ids
-from ledlint.sizing import ballast_for
+from ledlint.rules._support import ballast_hint, circuit_assumptions, ids
 
 
 def check(ctx: RuleContext) -> Iterator[Finding]:
@@ -56,12 +54,8 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
             values = (Value("model", worst.current.maximum, "A"),)
             template += ("; the model gives up to {model}, set only by the LED's internal resistance" if len(c.leds) == 1
                          else "; the model gives up to {model}, set only by the LEDs' internal resistance")
-            limit = worst.params.if_max
-            if isinstance(limit, Param):
-                fix = ballast_for(a, 0.75 * limit.value)
-                if fix:
-                    hint = (f"add {quantity(fix.resistance, 'Ω')} (E24) in series: worst case "
-                            f"{quantity(fix.current_max, 'A')}, at least {quantity(fix.rating, 'W')} rated")
+            hint = ballast_hint(ctx, a, hint)
+            hint = "add" + hint[3:] if hint.startswith("use ") else hint
         yield ctx.finding(a, Severity.ERROR, template, values=values, hint=hint, leds=ids(c.leds), src=src, ret=ret,
                           assumed=tuple(circuit_assumptions(a)))
 

@@ -27,7 +27,6 @@ DESIGNED = {
         ("missing-parameter", INFO, ("D4", "R4")),
         # Knob backlight: three amber LEDs on one 39 Ω, in an 0805.
         ("shared-resistor-bank", ERROR, ("D5", "D6", "D7", "R5")),
-        ("current-margin", ERROR, ("D5", "D6", "D7", "R5")),
         ("resistor-overload", ERROR, ("R5",)),
         # DOOR: fitted backwards.
         ("reverse-bias", ERROR, ("D8",)),
@@ -40,7 +39,6 @@ DESIGNED = {
         ("resistor-overload", ERROR, ("R3",)),
         # Spot: two strings of three 1 W LEDs on one 4.7 Ω, 2.9 W nominal in a 5 W resistor.
         ("shared-resistor-bank", ERROR, ("D10", "D11", "D12", "D13", "D14", "D15", "R4")),
-        ("current-margin", ERROR, ("D10", "D11", "D12", "D13", "D14", "D15", "R4")),
         ("thermal-runaway", WARNING, ("D10", "D11", "D12", "D13", "D14", "D15", "R4")),
         ("resistor-overload", ERROR, ("R4",)),
         # Courtesy light: four LEDs straight across +12V.

@@ -36,7 +36,7 @@ def test_hint_sizes_the_ballast(tmp_path: Path) -> None:
     # 100 Ω keeps the most under it.
     assert current_bounds(3.465, 91 * 0.95, 1.8, 0.020)[0] > 0.75 * 0.025
     assert current_bounds(3.465, 100 * 0.95, 1.8, 0.020)[1] < 0.75 * 0.025
-    assert f.hint.startswith("add 100 Ω (E24) in series")
+    assert f.hint.startswith("add 100 Ω (E24)")
 
 
 def test_string_that_matches_the_rail_is_an_error(tmp_path: Path) -> None:
