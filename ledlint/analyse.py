@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import re
 import zlib
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from ledlint.frozen import FrozenMap
 from typing import Generator, Mapping
 
@@ -108,6 +108,7 @@ class Analysis:
     ambiguity: str = ""
     engine: tuple[ECircuit, ...] = ()  # the engine's circuits, one per string lit alone or one in all
     gaps: tuple[Missing, ...] = ()  # what one check lacks while the rest ran (an LED's unknown If_max)
+    ambient_basis: str = ""  # the ambient range the corners span, and where it comes from
 
 
 @dataclass(frozen=True)
@@ -281,7 +282,8 @@ class _Analyser:
                       for b in c.branches] if c.kind is CircuitKind.BANK else [[] for _ in c.branches]
         for rp in common_res + [r for rs in branch_res for r in rs]:
             missing += list(rp.unreadable) + ([rp.resistance] if isinstance(rp.resistance, Missing) else [])
-        limited = bool(common_res) or all(branch_res)
+        # A 0 Ω link is a wire, not a ballast: only real resistance limits the current.
+        limited = any(_ohms(r) for r in common_res) or all(any(_ohms(r) for r in rs) for rs in branch_res)
         # Lit alone when each string has its own driver pin; otherwise all together.
         if c.individually_driven:
             problems = [(c.source or b.far, c.ret or b.far, [k]) for k, b in enumerate(c.branches)]
@@ -485,6 +487,10 @@ def _led_results(cor: Corners, flat: list[LedParams]) -> list[LedResult]:
     return out
 
 
+def _ohms(rp: ResistorParams) -> bool:
+    return not isinstance(rp.resistance, Param) or rp.resistance.value > 0
+
+
 def _gaps(results: tuple[LedResult, ...] | list[LedResult]) -> tuple[Missing, ...]:
     """LED ratings that are not known, so current-margin could not judge those LEDs."""
     return tuple(r.params.if_max for r in results if isinstance(r.params.if_max, Missing))
@@ -630,5 +636,9 @@ def analyse(netlist: Netlist, config: Config) -> BoardAnalysis:
     circuits = recognise(graph, config)
     analyser = _Analyser(_Context(netlist, graph, config))
     analyses = tuple(_solve_all(circuits, [analyser.run(c) for c in circuits]))
+    given = config.ambient_set
+    ambient = (f"ambient {config.ambient_min_c:g} to {config.ambient_max_c:g} °C "
+               f"({config.path + ' [ambient]' if given else 'the default for an indoor product; set [ambient]'})")
+    analyses = tuple(replace(a, ambient_basis=ambient) if a.solved else a for a in analyses)
     return BoardAnalysis(netlist, circuits, analyses, cautions(netlist, circuits, analyses, config),
                          FrozenMap({c.ref: c for c in netlist.components}))

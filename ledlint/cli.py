@@ -105,6 +105,9 @@ def write_whole(out: str, destination: str | None) -> None:
         with os.fdopen(fd, "w", encoding="utf-8") as fh:
             fh.write(out)
         os.replace(tmp, target)
+    except OSError as exc:
+        Path(tmp).unlink(missing_ok=True)
+        raise LedlintError(f"cannot write the report: {exc.strerror or exc}", destination) from None
     except BaseException:
         Path(tmp).unlink(missing_ok=True)
         raise

@@ -74,6 +74,7 @@ class Config:
     path: str = ""
     ambient_min_c: float = 0.0  # a heated, indoor product (common practice)
     ambient_max_c: float = 40.0
+    ambient_set: bool = False  # whether a file gave [ambient]
     rails: Mapping[str, RailSetting] = field(default_factory=_empty)
     refs: Mapping[str, Mapping[str, str]] = field(default_factory=_empty)
     values: Mapping[str, Mapping[str, str]] = field(default_factory=_empty)
@@ -112,13 +113,23 @@ def _table(value: Any, where: str, path: str) -> Mapping[str, Any]:
     return value
 
 
+# Beyond these no LED board lives; a value outside them is a typing mistake, and numbers near the
+# floating-point limits would only make the solver's arithmetic overflow.
+MAX_RAIL_V = 10_000.0
+AMBIENT_C = (-60.0, 150.0)
+
+
 def _volts(value: Any, where: str, path: str) -> float:
     if isinstance(value, (int, float)) and not isinstance(value, bool):
-        return float(value)
-    q = parse_voltage(str(value)) if isinstance(value, str) else None
-    if q is None:
-        raise ConfigError(f"{where}: {value!r} is not a voltage (write 5.0 or \"5V\")", path)
-    return q.value
+        v = float(value)
+    else:
+        q = parse_voltage(str(value)) if isinstance(value, str) else None
+        if q is None:
+            raise ConfigError(f"{where}: {value!r} is not a voltage (write 5.0 or \"5V\")", path)
+        v = q.value
+    if not abs(v) <= MAX_RAIL_V:
+        raise ConfigError(f"{where}: {v:g} V is outside ±{MAX_RAIL_V:g} V", path)
+    return v
 
 
 def _rail(name: str, raw: Any, path: str) -> RailSetting:
@@ -144,6 +155,17 @@ def _rail(name: str, raw: Any, path: str) -> RailSetting:
     return RailSetting(nominal, lo, hi)
 
 
+# What a part's value can plausibly be (SI units, °C); outside it is a typing mistake.
+_RANGES = {"If": (1e-6, 1000.0), "Vf": (0.1, 1000.0), "Vr": (0.0, 10_000.0), "Rth": (0.0, 10_000.0),
+           "Tj": (-60.0, 300.0), "Tolerance": (0.0, 0.5), "Power": (1e-4, 10_000.0), "pin": (1e-6, 10.0)}
+
+
+def plausible(key: str, value: float) -> bool:
+    """Whether a part parameter's value (SI units, °C) is one a real part can have."""
+    lo, hi = _RANGES.get(key.split("_")[0], (float("-inf"), float("inf")))
+    return lo <= value <= hi
+
+
 def _part_value(key: str, value: Any, where: str, path: str) -> str:
     """A part parameter's text, checked against what the key means."""
     base = m.group(1) if (m := _DIE_KEY.match(key)) else key
@@ -155,9 +177,13 @@ def _part_value(key: str, value: Any, where: str, path: str) -> str:
     }
     if base in grammar:
         parse, example = grammar[base]
-        if not isinstance(value, str) or parse(value) is None:
+        q = parse(value) if isinstance(value, str) else None
+        if q is None:
             raise ConfigError(f"{where} {key}: {value!r} is not a valid value; write it with its unit, "
                               f"e.g. {key} = {example}", path)
+        number = q[0].value if isinstance(q, tuple) else q.value
+        if not plausible(base, number):
+            raise ConfigError(f"{where} {key}: {value!r} is outside what a part of this kind can be", path)
         return value
     text = _text(value, f"{where} {key}", path)
     if base == "driver" and text not in DRIVER_KINDS:
@@ -191,11 +217,16 @@ def _text(value: Any, where: str, path: str) -> str:
 
 def _temperature(value: Any, where: str, path: str) -> float:
     if isinstance(value, (int, float)) and not isinstance(value, bool):
-        return float(value)
-    q: Quantity | None = parse_temperature(value) if isinstance(value, str) else None
-    if q is None:
-        raise ConfigError(f"{where}: {value!r} is not a temperature in °C", path)
-    return q.value
+        t = float(value)
+    else:
+        q: Quantity | None = parse_temperature(value) if isinstance(value, str) else None
+        if q is None:
+            raise ConfigError(f"{where}: {value!r} is not a temperature in °C", path)
+        t = q.value
+    if not AMBIENT_C[0] <= t <= AMBIENT_C[1]:
+        raise ConfigError(f"{where}: {t:g} °C is outside the {AMBIENT_C[0]:g} to {AMBIENT_C[1]:g} °C an "
+                          "electronic product works in", path)
+    return t
 
 
 def _waivers(raw: Any, path: str) -> tuple[Waiver, ...]:
@@ -227,7 +258,7 @@ def from_mapping(data: Mapping[str, Any], path: str = "") -> Config:
         hi = _temperature(amb.get("max", Config.ambient_max_c), "[ambient] max", path)
         if lo > hi:
             raise ConfigError(f"[ambient]: min {lo} °C is above max {hi} °C", path)
-        kwargs.update(ambient_min_c=lo, ambient_max_c=hi)
+        kwargs.update(ambient_min_c=lo, ambient_max_c=hi, ambient_set=True)
     if "rails" in data:
         kwargs["rails"] = FrozenMap({n: _rail(n, r, path) for n, r in _table(data["rails"], "[rails]", path).items()})
     for label in ("refs", "values", "symbols"):

@@ -14,9 +14,9 @@ class LedlintError(Exception):
         self.column = column
 
     def __str__(self) -> str:
-        where = self.path or "<input>"
-        if self.line:
-            where += f":{self.line}:{self.column or 1}"
+        if not self.path:
+            return f"ledlint: error: {self.message}"
+        where = self.path + (f":{self.line}:{self.column or 1}" if self.line else "")
         return f"{where}: error: {self.message}"
 
 

@@ -11,7 +11,7 @@ from dataclasses import dataclass
 from enum import Enum
 from typing import Callable
 
-from ledlint.config import Config
+from ledlint.config import Config, plausible
 from ledlint.ledtypes import (AMBIGUOUS_GREEN, INDICATOR_IF_MAX, INDICATOR_RTH, SPREAD, TECHNOLOGIES, TEST_CURRENT,
                               VR_MAX, Technology, colour_from_text, die_colour, is_indicator_footprint,
                               series_resistance)
@@ -88,6 +88,11 @@ def _quantity(component: Component, config: Config, keys: tuple[str, ...],
         found = _lookup(component, config, key)
         if found is not None:
             q = parse(found.text)
+            if q is not None and not plausible(key, q.value):
+                if bad is not None:
+                    bad.append(Missing(key, f"{found.detail} is outside what a part of this kind can be",
+                                       f"check {key}, e.g. {_EXAMPLES.get(key.split('_')[0], key)}"))
+                return None
             if q is None:
                 if bad is not None:
                     bad.append(Missing(key, f"{found.detail} cannot be read",
@@ -225,9 +230,14 @@ def led_params(component: Component, config: Config, die: str = "") -> LedParams
         if vf_field:
             break
     bad: list[Missing] = []
-    if vf_field and not parse_vf(vf_field.text):
+    parsed_vf = parse_vf(vf_field.text) if vf_field else None
+    if parsed_vf and not (plausible("Vf", parsed_vf[0].value) and
+                          (parsed_vf[1] is None or plausible("If", parsed_vf[1].value))):
+        bad.append(Missing("Vf", f"{vf_field.detail} is outside what an LED can be", "check Vf, e.g. Vf = 2.0V@20mA"))
+        parsed_vf = None
+    elif vf_field and not parsed_vf:
         bad.append(Missing("Vf", f"{vf_field.detail} cannot be read", "write it like Vf = 2.0V@20mA"))
-    if vf_field and (parsed := parse_vf(vf_field.text)):
+    if vf_field and (parsed := parsed_vf):
         vq, iq = parsed
         vf = Param(vq.value, vf_field.origin, vf_field.detail)
         if iq is not None:

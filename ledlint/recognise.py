@@ -90,6 +90,7 @@ class LedCircuit:
     sink: Sink | None = None
     driver: DriverIC | None = None
     blocked: str = ""  # why the string can never conduct
+    never_lights: bool = False  # an end is left open: the LED can never conduct
     reason: str = ""  # unrecognised, multiplexed, addressable, not fitted: what the tool saw
     line: int = 0
     sheet: str = "/"
@@ -352,7 +353,8 @@ class _Recogniser:
             for d, i in zip(dies, ids):
                 open_pins = [n for n in (d.anode, d.cathode) if (comp.pin(n) is None or comp.pin(n).net is None)]
                 if open_pins:
-                    self.unrecognised([i], f"{i} has pin {', '.join(open_pins)} on no net, so it can never light")
+                    self.unrecognised([i], f"pin {', '.join(open_pins)} of {i} is on no net",
+                                      never_lights=True)
 
     def blocked(self, seg: Segment) -> None:
         top, bottom = self.topo.terminal(seg.top), self.topo.terminal(seg.bottom)
@@ -397,13 +399,12 @@ class _Recogniser:
                 self.emit(CircuitKind.SINK, ids, branches=tuple(Branch(b.elements) for b in branches),
                           source=src, ret=term, node=node, sink=sink)
                 return
-        if common_term.kind in (TerminalKind.NODE, TerminalKind.OTHER, TerminalKind.CONNECTOR) or \
-                any(b.far.kind in (TerminalKind.NODE, TerminalKind.OTHER, TerminalKind.CONNECTOR) for b in branches):
-            odd = common_term if common_term.kind in (TerminalKind.NODE, TerminalKind.OTHER, TerminalKind.CONNECTOR) \
-                else next(b.far for b in branches if b.far.kind in (TerminalKind.NODE, TerminalKind.OTHER,
-                                                                      TerminalKind.CONNECTOR))
-            self.unrecognised(ids, f"strings sharing {node} continue to {odd.net} ({odd.detail or odd.kind.value}), "
-                                   "which is not a supply, ground or driver pin", node=node)
+        strange = (TerminalKind.NODE, TerminalKind.OTHER, TerminalKind.CONNECTOR, TerminalKind.OPEN)
+        if common_term.kind in strange or any(b.far.kind in strange for b in branches):
+            odd = common_term if common_term.kind in strange else next(b.far for b in branches if b.far.kind in strange)
+            self.unrecognised(ids, f"strings sharing {node} continue to {odd.net} ({odd.detail or odd.kind.value}): "
+                                   "not a supply, ground or driver pin the tool follows", node=node,
+                              never_lights=odd.kind is TerminalKind.OPEN)
             return
         if not any(e.kind is ElementKind.RESISTOR for e in elems):
             self.unrecognised(ids, f"strings meet at {node}, which leads on through {', '.join(e.id for e in elems)} "
@@ -455,12 +456,17 @@ class _Recogniser:
                 self.emit(CircuitKind.SINK, ids, branches=(Branch(seg.elements[:seg.elements.index(sink.transistor)]),),
                           source=src, ret=term, sink=sink)
                 continue
-            odd = [t for t in (src, ret) if t.kind in (TerminalKind.OTHER, TerminalKind.CONNECTOR)]
+            odd = [t for t in (src, ret) if t.kind in (TerminalKind.OTHER, TerminalKind.CONNECTOR, TerminalKind.OPEN)]
             if odd:
                 t = odd[0]
                 side = "anode" if t is src else "cathode"
-                where = "goes off the board through " + t.detail if t.kind is TerminalKind.CONNECTOR else \
-                    f"meets {t.detail}, which is not a supply, ground or driver pin"
+                if t.kind is TerminalKind.OPEN:
+                    self.unrecognised(ids, f"the {side} side ends at net {t.net}, and nothing else is connected "
+                                           "to it", branches=(Branch(seg.elements),),
+                                      source=src, ret=ret, never_lights=True)
+                    continue
+                where = ("goes off the board through " + t.detail if t.kind is TerminalKind.CONNECTOR else
+                         f"holds {t.detail}: not a supply, ground or driver pin the tool follows")
                 self.unrecognised(ids, f"the {side} side ends at net {t.net}, which {where}",
                                   branches=(Branch(seg.elements),), source=src, ret=ret)
             elif src.kind is TerminalKind.PIN and ret.kind is TerminalKind.PIN:

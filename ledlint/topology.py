@@ -80,6 +80,7 @@ class TerminalKind(Enum):
     PIN = "controller-pin"  # an IC output pin drives it
     CONNECTOR = "connector"  # goes off the board
     NODE = "node"  # only element ends: an inner junction of an LED structure
+    OPEN = "open"  # nothing else on the net: the LED can never conduct
     OTHER = "other"
 
 
@@ -256,11 +257,22 @@ class Topology:
         for pin in others:
             comp = self.graph.component(pin.ref)
             if comp is not None and classify(comp) is Kind.CONNECTOR:
-                return Terminal(net, TerminalKind.CONNECTOR, pin, f"connector {pin.ref} pin {pin.number}")
-        if not others and len(self.ends.get(net, ())) >= 3:
+                rest = self.holding(net, skip=pin)
+                return Terminal(net, TerminalKind.CONNECTOR, pin, f"connector {pin.ref} pin {pin.number}"
+                                + (f" (the net also holds {rest})" if rest else ""))
+        ends = self.ends.get(net, ())
+        if not others and len(ends) >= 3:
             return Terminal(net, TerminalKind.NODE)
-        return Terminal(net, TerminalKind.OTHER, others[0] if others else None,
-                        f"{len(others)} other pin(s)" if others else "nothing else on the net")
+        if not others and len(ends) <= 1:
+            return Terminal(net, TerminalKind.OPEN, detail="nothing else is connected to it")
+        return Terminal(net, TerminalKind.OTHER, others[0] if others else None, self.holding(net))
+
+    def holding(self, net: str, skip: Pin | None = None, most: int = 4) -> str:
+        """What a net holds besides the LEDs, for a reason a reviewer can check: "R69 pin 1 and D9 pin 2"."""
+        pins = [p for p in self.graph.pins_on(net) if p is not skip and p.ref != (skip.ref if skip else None)
+                and classify(self.graph.component(p.ref) or Component("", "")) not in (Kind.LED, Kind.CAPACITOR)]
+        names = [f"{p.ref} pin {p.number}" for p in pins[:most]] + ([f"{len(pins) - most} more"] if len(pins) > most else [])
+        return ", ".join(names[:-1]) + " and " + names[-1] if len(names) > 1 else "".join(names)
 
     def segments_at(self, net: str) -> list[Segment]:
         """Segments with an end on a net (a segment with both ends there appears once)."""

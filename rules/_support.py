@@ -37,7 +37,8 @@ def resistor_assumptions(r: ResistorResult, *, rating: bool = False) -> list[str
 
 
 def circuit_assumptions(a: Analysis) -> list[str]:
-    out = list(a.supply.basis) if a.supply else []
+    out = [a.ambient_basis] if a.ambient_basis else []
+    out += list(a.supply.basis) if a.supply else []
     out += list(a.assumptions)
     if a.set_current is not None:
         out.append(f"set current: {a.set_current.basis}")

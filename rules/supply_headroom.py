@@ -13,9 +13,10 @@ Why it matters
     dark indicators.
 
 Example
-    A white LED on +3V3 through 15 Ω: about 23 mA nominal, but at 3.14 V with a 3.4 V-max
-    LED it drops under 2 mA. Error (a warning while Vf max is only the built-in table's).
-    Fixed: run it from +5V through 150 Ω: about 14 mA nominal and 9 mA at the low corner.
+    A white LED with Vf 3.0 V typical and 3.4 V maximum (its datasheet, as fields) on +3V3
+    through 15 Ω: 20 mA nominal, (3.3 − 3.0) V / 15 Ω, but at 3.14 V it drops under 2 mA:
+    error. With only the colour named, the same circuit is an info: the table's Vf is not the
+    part's. Fixed: run it from +5V through 150 Ω: about 14 mA nominal and 9 mA at the low corner.
 
 Fix
     Use a higher rail (the hint gives the least supply that leaves 1 V across the ballast),
@@ -56,7 +57,10 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
         else:
             continue
         low = min(a.leds, key=lambda r: r.low / max(r.current.nominal, 1e-15))
-        severity = by_evidence(severity, any(is_default(r.params.vf_max) for r in a.leds))
+        # Resting on a colour's table Vf (no Vf given at all) it is two steps less severe; on a
+        # spread assumed around a given Vf, one.
+        table = any(is_default(r.params.vf) for r in a.leds)
+        severity = by_evidence(by_evidence(severity, table), table or any(is_default(r.params.vf_max) for r in a.leds))
         string_v = a.supply.volts.minimum - a.headroom_v
         values = (Value("supply_min", a.supply.volts.minimum, "V"), Value("string", string_v, "V"),
                   Value("headroom", a.headroom_v, "V", 0.0, "<"), Value("low", low.low, "A"),

@@ -13,8 +13,11 @@ Why it matters
     until they fail. A bigger ballast drop or a current driver breaks the loop.
 
 Example
-    A 1 W white LED (Vf 3.0 V at 350 mA, Rth 30 K/W) from +3V3 through 0.1 Ω: G ≈ 0.6, a
-    warning. Through 0.86 Ω, G ≈ 0.18; a constant-current driver breaks the loop.
+    Two 1 W white LEDs (Vf 3.0 V at 350 mA, If_max 1 A, Rth 30 K/W) in parallel from +5V
+    through one 3.3 Ω: about 320 mA each, and G ≈ 0.57, a warning: one LED warms, its Vf falls,
+    it takes current from the other and warms further (shared-resistor-bank reports the split
+    as well). Fixed: 5.6 Ω for each LED (a power resistor: about 1.3 W at the worst corner),
+    and G ≈ 0.01.
 
 Fix
     Raise the ballast so its drop is large against the Vf shift (about 1 V for ±10 % over

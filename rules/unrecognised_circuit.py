@@ -1,7 +1,7 @@
 """unrecognised-circuit: an LED in a connection the tool does not know how to analyse.
 
 What it flags
-    An LED that is not part of a series string, a shared-resistor bank, a current sink, a
+    An LED with an end left open (warning: it can never light), or an LED that is not part of a series string, a shared-resistor bank, a current sink, a
     driver output, an addressable chain or a multiplexed matrix: for example an LED whose
     cathode goes off the board through a connector, or sits on a node with other parts. The
     finding says what the tool saw.
@@ -11,12 +11,13 @@ Why it matters
     checked, and the reviewer should look at it by hand.
 
 Example
-    D3's anode through R63 from +VIN, its cathode on a heater connector pin: the return is
-    off the board, so the current is not known from the netlist.
+    An LED's anode through a resistor from +12V, its cathode on a connector pin that goes to
+    an off-board switch: the return is off the board, so the current is not known from the
+    netlist (info). An LED whose cathode net holds nothing else: it can never light (warning).
 
 Fix
-    Nothing to fix on the board as such; check the circuit by hand, or waive the finding with
-    the reason once it has been.
+    Connect an open end. Otherwise nothing to fix on the board as such; check the circuit by
+    hand, or waive the finding with the reason once it has been.
 
 Formula
     None.
@@ -38,7 +39,10 @@ from ledlint.rules._support import ids
 def check(ctx: RuleContext) -> Iterator[Finding]:
     for a in ctx.analyses:
         c = a.circuit
-        if c.kind is CircuitKind.UNRECOGNISED:
+        if c.kind is CircuitKind.UNRECOGNISED and c.never_lights:
+            yield ctx.finding(a, Severity.WARNING, "{leds} can never light: {reason}", leds=ids(c.leds),
+                              reason=c.reason, hint="connect the open end, or mark the LED do-not-populate")
+        elif c.kind is CircuitKind.UNRECOGNISED:
             yield ctx.finding(a, Severity.INFO, "{leds} not analysed: {reason}", leds=ids(c.leds), reason=c.reason,
                               hint="check this circuit by hand")
 

@@ -23,12 +23,15 @@ VT25 = 1.380649e-23 * 298.15 / 1.602176634e-19  # kT/q at 25 °C (CODATA 2018, e
 def hand_current(v: float, r: float, vf: float, *, n: float = 2.0, rs: float = 10.0, tc: float = -0.002,
                  t: float = 40.0, i_test: float = 0.020) -> float:
     """Ohm's law, I = (V − Vf(I, T)) / R, with Vf(I, T) = Vf + n·Vt·ln(I / I_test) + Rs·(I − I_test) + tc·(T − 25)
-    (Shockley with series resistance, field-facts §5c; −2 mV/K for red, common practice), by fixed point."""
-    i = i_test
-    for _ in range(200):
-        vt = VT25 * (t + 273.15) / 298.15
-        i = max((v - (vf + n * vt * math.log(i / i_test) + rs * (i - i_test) + tc * (t - 25))) / r, 1e-9)
-    return i
+    (Shockley with series resistance, field-facts §5c; tc −2 mV/K red, −3 mV/K white, common
+    practice). The left side falls and the right rises with I, so bisection finds it."""
+    vt = VT25 * (t + 273.15) / 298.15
+    lo, hi = 1e-12, 100.0
+    for _ in range(300):
+        mid = math.sqrt(lo * hi)
+        vf_mid = vf + n * vt * math.log(mid / i_test) + rs * (mid - i_test) + tc * (t - 25)
+        lo, hi = (mid, hi) if (v - vf_mid) / r > mid else (lo, mid)
+    return math.sqrt(lo * hi)
 
 
 def findings(tmp_path, board: Board) -> dict:
@@ -98,15 +101,23 @@ def test_resistor_overload_example(tmp_path) -> None:
 
 
 def test_supply_headroom_example(tmp_path) -> None:
-    got = findings(tmp_path, lamp("+3V3", "15", "white"))
+    got = findings(tmp_path, lamp("+3V3", "15", "white", Vf="3.0V@20mA", Vf_max="3.4V", Rth="0"))
     f = got["by_rule"]["supply-headroom"]
-    assert f.severity is Severity.WARNING  # Vf max is the built-in table's: one step lower
-    assert value(f, "low") < 0.002 and value(f, "nominal") == pytest.approx(0.023, rel=0.05)
-    fixed = findings(tmp_path, lamp("+5V", "150", "white"))
+    assert f.severity is Severity.ERROR
+    # Nominal by Ohm's law with Vf(I) (white: n = 3, −3 mV/K), 25 °C; at the low corner 3.135 V
+    # over 15.75 Ω with Vf 3.4 V at 20 mA at 0 °C: a fraction of a milliamp.
+    nominal = hand_current(3.3, 15, 3.0, n=3.0, tc=-0.003, t=25.0)
+    assert value(f, "nominal") == pytest.approx(nominal, rel=0.01) and value(f, "nominal") == pytest.approx(0.020, rel=0.01)
+    low = hand_current(3.135, 15.75, 3.4, n=3.0, tc=-0.003, t=0.0)
+    assert value(f, "low") == pytest.approx(low, rel=0.05) and value(f, "low") < 0.002
+    colour_only = findings(tmp_path, lamp("+3V3", "15", "white"))["by_rule"]["supply-headroom"]
+    assert colour_only.severity is Severity.INFO  # resting on the colour table: two steps lower
+    fixed = findings(tmp_path, lamp("+5V", "150", "white", Rth="0"))
     assert "supply-headroom" not in fixed["by_rule"]
     led = fixed["board"].analyses[0].leds[0]
-    # About 14 mA: (5 − 2.9) / 150 with Vf a little under 3.0 V at 14 mA; 9 mA at the low corner.
-    assert led.current.nominal == pytest.approx(0.014, rel=0.05) and led.low == pytest.approx(0.009, rel=0.05)
+    assert led.current.nominal == pytest.approx(hand_current(5.0, 150, 3.0, n=3.0, tc=-0.003, t=25.0), rel=0.01)
+    assert led.current.nominal == pytest.approx(0.014, rel=0.05)
+    assert led.low == pytest.approx(hand_current(4.75, 157.5, 3.4, n=3.0, tc=-0.003, t=0.0), rel=0.01)
 
 
 def test_unlimited_led_example(tmp_path) -> None:
@@ -134,14 +145,38 @@ def test_pin_overcurrent_example(tmp_path, r: str, worst: float, fires: bool) ->
     assert (f is not None) == fires and (f is None or f.severity is Severity.WARNING)
 
 
-@pytest.mark.parametrize(("r", "gain", "fires"), [("0R1", 0.6, True), ("0R86", 0.18, False)])
-def test_thermal_runaway_example(tmp_path, r: str, gain: float, fires: bool) -> None:
+POWER_LED = dict(footprint="LED_SMD:LED_3535_Power", Vf="3.0V@350mA", If_max="1A", Rth="30K/W")
+
+
+def test_thermal_runaway_example(tmp_path) -> None:
     b = Board("example", "thermal")
-    b.resistor("R1", r, "+3V3", "/A", footprint="Resistor_SMD:R_2512_6332Metric")
-    b.led("D1", "white", "/A", "GND", footprint="LED_SMD:LED_Cree-XHP35", Vf="3.0V@350mA", If_max="1A", Rth="30K/W")
+    b.resistor("R1", "3R3", "+5V", "/N", footprint="Resistor_SMD:R_2512_6332Metric")
+    for ref in ("D1", "D2"):
+        b.led(ref, "white", "/N", "GND", **POWER_LED)
     got = findings(tmp_path, b)
-    assert got["board"].analyses[0].loop_gain == pytest.approx(gain, rel=0.05)
-    assert ("thermal-runaway" in got["by_rule"]) == fires
+    a = got["board"].analyses[0]
+    led = a.leds[0]
+    assert led.current.nominal == pytest.approx(0.32, rel=0.05) and led.current.maximum < 1.0  # within If_max
+    # Two LEDs on one node: the mode where one warms and takes current from the other holds the
+    # node, so G = Rth·|k|·Vf / r_d with r_d = n·Vt/I + Rs (field-facts §7, derived there):
+    # n = 3, Rs = 0.2 V / If_max, k = −3 mV/K (white, common practice), at the self-heated point.
+    tj = 25.0 + 30.0 * led.vf * led.current.nominal  # Tj = Ta + Rth·P at the nominal 25 °C
+    rd = 3 * VT25 * (tj + 273.15) / 298.15 / led.current.nominal + 0.2 / 1.0
+    closed = 30.0 * 0.003 * led.vf / rd
+    assert a.loop_gain == pytest.approx(closed, rel=0.1)
+    assert a.loop_gain == pytest.approx(0.57, rel=0.05) and got["by_rule"]["thermal-runaway"].severity is Severity.WARNING
+    fixed = Board("example", "thermal fixed")
+    for i in (1, 2):
+        fixed.resistor(f"R{i}", "5R6", "+5V", f"/A{i}", footprint="Resistor_SMD:R_2512_6332Metric")
+        fixed.led(f"D{i}", "white", f"/A{i}", "GND", **POWER_LED)
+    fixed_got = findings(tmp_path, fixed)
+    assert "thermal-runaway" not in fixed_got["by_rule"]
+    for fa in fixed_got["board"].analyses:
+        r = fa.leds[0]
+        # One LED through R: G = Rth·|k|·(Vf − I·R) / (R + r_d) (field-facts §6, derived there).
+        rd = 3 * VT25 / r.current.nominal + 0.2
+        assert fa.loop_gain == pytest.approx(30 * 0.003 * (r.vf - r.current.nominal * 5.6) / (5.6 + rd), abs=0.01)
+        assert fa.loop_gain < 0.05
 
 
 def test_reverse_bias_example(tmp_path) -> None:

@@ -448,6 +448,8 @@ class Solution:
     def of(cls, setup: Setup, cases: Cases, state: State, tj: Array,
            settled: NDArray[np.bool_] | None = None) -> Solution:
         i_k = state.branch_current
+        if not np.all(np.isfinite(i_k)) or not np.all(np.isfinite(state.vj)):
+            raise ModelError("the circuit's values are out of the range the model can solve")
         i_led = setup.topology.to_leds(i_k)
         v_led = state.vj + setup.table.r_s * i_led
         common = i_k.sum(axis=1)
