@@ -50,9 +50,10 @@ def render(template: str, **args: object) -> str:
     return _Formatter().format(template, **args)
 
 
-def fingerprint(rule: str, refs: tuple[str, ...], nets: tuple[str, ...]) -> str:
-    """Stable across re-exports: rule, sorted references and sorted nets, never line numbers."""
-    key = "\x1f".join([rule, ",".join(sorted(refs)), ",".join(sorted(nets))])
+def fingerprint(rule: str, refs: tuple[str, ...], nets: tuple[str, ...], topic: str = "") -> str:
+    """Stable across re-exports: rule, sorted references and sorted nets (and, where one rule
+    reports several things about the same parts, what it is about), never line numbers."""
+    key = "\x1f".join([rule, ",".join(sorted(refs)), ",".join(sorted(nets))] + ([topic] if topic else []))
     return hashlib.sha256(key.encode()).hexdigest()[:16]
 
 
@@ -73,10 +74,11 @@ class Finding:
     template: str = ""
     fingerprint: str = field(default="")
     waived: str = ""  # the reason, when a waiver silences it
+    topic: str = ""  # what the finding is about, when one rule says several things of the same parts
 
     def __post_init__(self) -> None:
         if not self.fingerprint:
-            object.__setattr__(self, "fingerprint", fingerprint(self.rule, self.refs, self.nets))
+            object.__setattr__(self, "fingerprint", fingerprint(self.rule, self.refs, self.nets, self.topic))
 
     @property
     def sort_key(self) -> tuple:

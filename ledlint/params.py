@@ -269,7 +269,7 @@ def led_params(component: Component, config: Config, die: str = "") -> LedParams
             if_max = Param(lo, Origin.DEFAULT, "small indicator LEDs are commonly rated 20-30 mA")
         else:
             if_max = Missing("If_max", f"no If_max field, and footprint {component.footprint!r} is not a small "
-                             "indicator package, so current-margin could not judge them",
+                             "indicator package",
                              "add a field If_max (e.g. If_max = 350mA) from the LED's datasheet")
     vr_max = _quantity(component, config, _die_key("Vr_max", die), parse_voltage, bad)
     vr_max = vr_max or Param(VR_MAX, Origin.DEFAULT, "the usual LED reverse-voltage rating")

@@ -27,6 +27,8 @@ class Option:
     default: float
     unit: str
     doc: str
+    minimum: float = 0.0  # the range a value must lie in (inclusive)
+    maximum: float = 1.0
 
 
 @dataclass(frozen=True)
@@ -62,13 +64,13 @@ class RuleContext:
 
     def finding(self, analysis: Analysis, severity: Severity, template: str, *, refs: tuple[str, ...] | None = None,
                 nets: tuple[str, ...] | None = None, values: tuple[Value, ...] = (), assumed: tuple[str, ...] = (),
-                hint: str = "", line: int | None = None, **args: object) -> Finding:
+                hint: str = "", line: int | None = None, topic: str = "", **args: object) -> Finding:
         c = analysis.circuit
         named = {v.name: v for v in values}
         return Finding(rule=self.rule.id, severity=severity, message=render(template, **named, **args), file=self.path,
                        line=c.line if line is None else line, refs=refs if refs is not None else c.refs,
                        nets=nets if nets is not None else c.nets, sheet=c.sheet, values=values,
-                       assumed=tuple(dict.fromkeys(assumed)), hint=hint, circuit=c.id, template=template)
+                       assumed=tuple(dict.fromkeys(assumed)), hint=hint, circuit=c.id, template=template, topic=topic)
 
 
 def validate(rule: Rule, where: str) -> None:
@@ -109,6 +111,14 @@ def settings(rules: tuple[Rule, ...], config: Config) -> RuleSettings:
                 severity[rid] = value
             elif isinstance(value, bool) or not isinstance(value, (int, float)):
                 raise ConfigError(f"[rules.{rid}] {key}: expected a number, not {value!r}", config.path)
+            else:
+                opt = next(o for o in rule.options if o.name == key)
+                if not opt.minimum <= value <= opt.maximum:
+                    raise ConfigError(f"[rules.{rid}] {key}: {value!r} is outside {opt.minimum:g} to {opt.maximum:g} "
+                                      f"({opt.unit})", config.path)
+    for w in config.waivers:
+        if w.rule not in by_id:
+            raise ConfigError(f"{w.origin}: no rule {w.rule!r}{suggest(w.rule, sorted(by_id))}", config.path)
     for rule in rules:
         merged = rule.option_defaults()
         merged.update({k: float(v) for k, v in config.rules.get(rule.id, {}).items() if k != "severity"})
@@ -126,7 +136,7 @@ def run_rules(rules: tuple[Rule, ...], board: BoardAnalysis, path: str, rule_set
         ctx = RuleContext(rule, board, path, rule_settings.options.get(rule.id, FrozenMap({})),
                           rule_settings.options)
         for f in rule.check(ctx):
-            if override:
+            if override and f.severity is not Severity.INFO:  # advice stays advice
                 f = replace(f, severity=Severity(override))
             out.append(f)
     return sorted(out, key=lambda f: f.sort_key)

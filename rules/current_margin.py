@@ -96,8 +96,8 @@ def _hint(ctx: RuleContext, a: Analysis) -> str:
 RULE = Rule(
     id="current-margin",
     summary="worst-case LED current above 75 % of If_max (warning) or above If_max (error)",
-    severity=Severity.WARNING,
+    severity=Severity.ERROR,
     check=check,
-    options=(Option("margin", 0.75, "fraction of If_max", "the share of If_max the worst case may reach"),),
+    options=(Option("margin", 0.75, "fraction of If_max", "the share of If_max the worst case may reach", 0.05, 1.0),),
     doc=__doc__,
 )

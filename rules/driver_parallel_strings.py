@@ -38,6 +38,7 @@ from __future__ import annotations
 from typing import Iterator
 
 from ledlint.ratings import chip_for
+from ledlint.analyse import Analysis
 from ledlint.findings import Finding, Severity, Value, quantity
 from ledlint.params import Param
 from ledlint.recognise import CircuitKind
@@ -95,10 +96,10 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
             template += " (LED type unknown: the split assumes 2.0 V ±10 % per LED)"
         notes = [x for r in a.leds for x in led_assumptions(r, limit=r is worst)][:6] + circuit_assumptions(a)
         yield ctx.finding(a, severity, template, refs=refs, values=tuple(values), n=n, output=output,
-                          samples=s.samples, led=s.worst_led, hint=_hint(a, limit), assumed=tuple(notes))
+                          samples=s.samples, led=s.worst_led, hint=_hint(ctx, a, limit), assumed=tuple(notes))
 
 
-def _hint(a, limit: float) -> str:
+def _hint(ctx: RuleContext, a: Analysis, limit: float) -> str:
     text = "give each string its own output or sink transistor"
     fix = balancing_for(a, limit)
     if fix is None:
@@ -106,8 +107,9 @@ def _hint(a, limit: float) -> str:
     if fix.drop > _MAX_BALANCING_DROP:
         return text + (f" (a balancing resistor would have to drop {quantity(fix.drop, 'V')} per string to hold "
                        f"the split within {limit:.0%})")
-    chip = chip_for(fix.power_max / 0.5)
-    size = f", rated at least {quantity(fix.power_max / 0.5, 'W')} ({chip[0]} or larger)" if chip else ""
+    factor = ctx.option_of("resistor-overload", "design_factor", 0.5)
+    chip = chip_for(fix.power_max / factor)
+    size = f", rated at least {quantity(fix.power_max / factor, 'W')} ({chip[0]} or larger)" if chip else ""
     return text + (f", or put {quantity(fix.resistance, 'Ω')} {fix.tolerance * 100:g} % (E24) in series with each string: "
                    f"it drops {quantity(fix.drop, 'V')} and brings the split to {fix.spread:.1%} (Monte Carlo, "
                    f"as above){size}")
@@ -116,8 +118,8 @@ def _hint(a, limit: float) -> str:
 RULE = Rule(
     id="driver-parallel-strings",
     summary="strings in parallel on one constant-current output: the split follows Vf",
-    severity=Severity.WARNING,
+    severity=Severity.ERROR,
     check=check,
-    options=(Option("spread_limit", 0.10, "fraction of the mean", "split unevenness from which to warn"),),
+    options=(Option("spread_limit", 0.10, "fraction of the mean", "split unevenness from which to warn", 0.01, 1.0),),
     doc=__doc__,
 )

@@ -49,8 +49,12 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
         leds = [i for a in analyses for i in a.circuit.leds]
         refs = tuple(dict.fromkeys(r for a in analyses for r in a.circuit.refs))
         nets = tuple(dict.fromkeys(n for a in analyses for n in a.circuit.nets))
-        yield ctx.finding(first, Severity.INFO, "{name} unknown, so {leds} could not be checked: {reason}",
-                          refs=refs, nets=nets, name=name, leds=ids(leds), reason=reason, hint=fix)
+        gap = any(m.name == name and m.fix == fix for a in analyses for m in a.gaps)
+        # A gap leaves the other rules running; only current-margin lacked what it needs.
+        template = ("{name} unknown, so current-margin could not judge {leds}: {reason}" if gap else
+                    "{name} unknown, so {leds} could not be checked: {reason}")
+        yield ctx.finding(first, Severity.INFO, template, refs=refs, nets=nets, name=name, leds=ids(leds),
+                          reason=reason, hint=fix, topic=name)
 
 
 RULE = Rule(

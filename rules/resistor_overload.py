@@ -91,6 +91,6 @@ RULE = Rule(
     summary="resistor dissipation above its usable rating (design factor, IEC 60115-1 derating)",
     severity=Severity.ERROR,
     check=check,
-    options=(Option("design_factor", 0.5, "fraction of rating", "the share of the derated rating to use"),),
+    options=(Option("design_factor", 0.5, "fraction of rating", "the share of the derated rating to use", 0.05, 1.0),),
     doc=__doc__,
 )

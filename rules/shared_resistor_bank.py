@@ -121,7 +121,7 @@ def _hint(ctx: RuleContext, a: Analysis) -> str:
 RULE = Rule(
     id="shared-resistor-bank",
     summary="LEDs or strings in parallel behind one resistor: the current splits by Vf",
-    severity=Severity.WARNING,
+    severity=Severity.ERROR,
     check=check,
     doc=__doc__,
 )

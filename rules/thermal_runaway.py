@@ -3,9 +3,7 @@
 What it flags
     A voltage-driven LED string or bank whose electro-thermal loop gain G reaches 0.5: a
     rise in junction temperature lowers Vf, which raises the current, which heats the
-    junction further. G ≥ 1 is runaway; 0.5 already doubles every thermal disturbance. Also
-    any LED whose self-heated junction passes its Tj_max (125 °C when not given) at the worst
-    corner.
+    junction further. G ≥ 1 is runaway; 0.5 already doubles every thermal disturbance.
 
 Why it matters
     Power LEDs on a stiff rail with a small ballast, and LEDs sharing a resistor (one LED
@@ -24,7 +22,6 @@ Fix
     50 K), use a constant-current driver, or improve the LED's heat path (lower Rth).
 
 Formula
-    Tj = Ta + Rth · P at the worst corner (P the LED's electrical power, all taken as heat).
     G = Rth · ∂P/∂Tj at the operating point (the largest eigenvalue of the loop matrix over
     the LEDs). For one LED through R: G = Rth · |k| · (Vf − I·R) / (R + r_d), k = dVf/dT.
     The steady-state disturbance is amplified by 1 / (1 − G).
@@ -40,7 +37,6 @@ from __future__ import annotations
 from typing import Iterator
 
 from ledlint.findings import Finding, Severity, Value
-from ledlint.params import Param
 from ledlint.registry import Option, Rule, RuleContext
 from ledlint.rules._support import assumed_param, by_evidence, circuit_assumptions, ids
 
@@ -48,7 +44,6 @@ from ledlint.rules._support import assumed_param, by_evidence, circuit_assumptio
 def check(ctx: RuleContext) -> Iterator[Finding]:
     limit = ctx.options["gain_limit"]
     for a in ctx.analyses:
-        yield from _too_hot(ctx, a)
         if not a.solved or a.loop_gain is None or a.loop_gain < limit or a.set_current is not None:
             continue
         rth_assumed = any(r.params.rth is not None and r.params.rth.assumed for r in a.leds)
@@ -68,33 +63,11 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                            "the LED's thermal resistance"))
 
 
-def _too_hot(ctx: RuleContext, a) -> Iterator[Finding]:
-    """A junction that self-heating takes past its rating at the worst corner."""
-    if not a.solved or a.unlimited:
-        return  # with nothing limiting the current, unlimited-led already says it all
-    # An LED driven past its If_max is current-margin's finding; a junction too hot within the
-    # current rating (a poor heat path) is the one to add.
-    hot = [r for r in a.leds if r.params.rth is not None and r.tj_max > r.params.tj_max.value
-           and not (isinstance(r.params.if_max, Param) and r.current.maximum > r.params.if_max.value)]
-    if not hot:
-        return
-    led = max(hot, key=lambda r: r.tj_max - r.params.tj_max.value)
-    assumed = led.params.tj_max.assumed or led.params.rth.assumed
-    yield ctx.finding(a, by_evidence(Severity.WARNING, assumed),
-                      "{led}'s junction reaches {tj} at the worst corner, above its Tj_max of {tj_max}",
-                      values=(Value("tj", led.tj_max, "°C", led.params.tj_max.value, ">"),
-                              Value("tj_max", led.params.tj_max.value, "°C")),
-                      assumed=tuple(assumed_param(f"{led.id} Rth", led.params.rth, "K/W")
-                                    + assumed_param(f"{led.id} Tj_max", led.params.tj_max, "°C")
-                                    + circuit_assumptions(a)),
-                      led=led.id, hint="lower the current, or the thermal resistance (copper, a heatsink)")
-
-
 RULE = Rule(
     id="thermal-runaway",
     summary="electro-thermal loop gain of a voltage-driven string or bank at or above 0.5",
     severity=Severity.WARNING,
     check=check,
-    options=(Option("gain_limit", 0.5, "", "loop gain from which to warn"),),
+    options=(Option("gain_limit", 0.5, "", "loop gain from which to warn", 0.05, 5.0),),
     doc=__doc__,
 )

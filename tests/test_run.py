@@ -130,7 +130,7 @@ def test_rules_and_explain_commands() -> None:
     r = _cli("rules", "--format", "json")
     ids = [x["id"] for x in json.loads(r.stdout)]
     for rid in ("shared-resistor-bank", "resistor-overload", "supply-headroom", "current-margin", "unlimited-led",
-                "reverse-bias", "pin-overcurrent", "thermal-runaway", "missing-parameter",
+                "reverse-bias", "pin-overcurrent", "thermal-runaway", "junction-temperature", "missing-parameter",
                 "driver-parallel-strings", "driver-headroom"):
         assert rid in ids
     e = _cli("explain", "thermal-runaway")

@@ -70,22 +70,6 @@ def test_stiff_rail_small_ballast_is_a_warning(tmp_path: Path) -> None:
     assert f"{1 / (1 - gain.value):.2g}×" in f.message
 
 
-def test_junction_past_its_rating(tmp_path: Path) -> None:
-    """A 1 W LED within its current rating but on a poor heat path (130 K/W)."""
-    b = Board("hot", "thermal fixture")
-    b.resistor("R1", "4R7", "+5V", "Net-(D1-A)", footprint="Resistor_SMD:R_2512_6332Metric")
-    b.led("D1", "white", "Net-(D1-A)", "GND", footprint="LED_SMD:LED_Cree-XHP35", Vf="3.0V@350mA",
-          If_max="1.5A", Rth="130K/W")
-    result = run_board(b, tmp_path, AMBIENT)
-    f = next(x for x in of_rule(result, "thermal-runaway") if "junction reaches" in x.message)
-    led = next(a for a in result.board.analyses if a.circuit.id == "D1").leds[0]
-    assert led.current.maximum < 1.5  # within If_max: the heat path, not the current, is at fault
-    # Tj = Ta + Rth·P (field-facts §6) at the worst corner, P = Vf·I all heat: well past the
-    # default 125 °C (LED junction ratings run 110-150 °C, field-facts §5b); a default lowers it.
-    assert value(f, "tj").value == pytest.approx(led.tj_max) and led.tj_max > 125.0
-    assert value(f, "tj_max").value == 125.0 and f.severity is Severity.INFO
-
-
 def test_fixed_twin_with_a_real_ballast(tmp_path: Path) -> None:
     """+5V through 18 Ω: 1.8 V of ballast drop, 100 mA before any heating."""
     result = run_board(spot("+5V", "18"), tmp_path, AMBIENT)
