@@ -319,11 +319,11 @@ def rail_params(net: str, config: Config) -> RailParams | None:
                       ground=rail.kind is RailKind.GROUND, ac=rail.kind is RailKind.AC)
 
 
-# A controller pin's continuous current, when its datasheet is not given (the default;
+# A controller pin's continuous current, when its datasheet is not given (common practice;
 # typical GPIO ratings are 8-25 mA, field-facts §9).
 PIN_LIMIT = 0.020
-# Output resistance of a GPIO pin driving an LED: ≈ 40-45 Ω for an AVR at 20 mA / 5 V and
-# ≈ 65 Ω worst case for an STM32 at 20 mA (field-facts §9, derived there; common practice).
+# Output resistance of a GPIO pin driving an LED: ≈ 40-45 Ω for a 5 V 8-bit controller at 20 mA and
+# ≈ 65 Ω worst case for a 3.3 V 32-bit one at 20 mA (field-facts §9, derived there; common practice).
 PIN_RESISTANCE = (40.0, 50.0, 65.0)
 
 

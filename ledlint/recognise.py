@@ -142,7 +142,7 @@ class _Recogniser:
         self.done: set[str] = set()  # LED die ids already in a circuit
         self.out: list[LedCircuit] = []
 
-    # ------------------------------------------------------------ helpers
+    # ------------------------------------------------------------ small pieces
     def comp(self, ref: str) -> Component:
         c = self.graph.component(ref)
         assert c is not None

@@ -5,6 +5,8 @@ from __future__ import annotations
 import re
 from pathlib import Path
 
+from paths import CORPUS
+
 from ledlint.parts import Kind, classify
 from ledlint.reader import read_netlist
 
@@ -14,7 +16,6 @@ _ATOM = r'"(?:[^"\\]|\\.)*"|[^()\s"]+'
 _COMP = re.compile(r"\(comp\s+\(ref\s")
 _NET = re.compile(r"\(net\s+\(code\s+(?:" + _ATOM + r")\)\s+\(name\s")
 _COMP_BLOCK = re.compile(r"\(comp\s+\(ref\s+(" + _ATOM + r")\)(.*?)(?=\(comp\s+\(ref\s|\(libparts|\Z)", re.S)
-_LEDISH = re.compile(r"LED|WS28|SK68|APA10", re.I)
 _EXCLUDED_REF = re.compile(r"^(J|P|SW|K|TP|CON|U|Brd|MX)")
 
 
@@ -23,12 +24,22 @@ def _field(block: str, head: str) -> str:
     return m.group(1).strip('"') if m else ""
 
 
+def _ledish() -> re.Pattern[str]:
+    """The MANIFEST's LED-like pattern, read from the MANIFEST itself (its `/…/i` in the LED-like
+    bullet), so the count follows the corpus's own definition."""
+    text = (CORPUS / "MANIFEST.md").read_text(encoding="utf-8")
+    m = re.search(r"\*\*LED-like\*\*.*?`/([^`]+)/i`", text, re.S)
+    assert m, "the MANIFEST's LED-like pattern"
+    return re.compile(m.group(1), re.I)
+
+
 def regex_counts(text: str) -> tuple[int, int, int]:
+    ledish = _ledish()
     leds = 0
     for m in _COMP_BLOCK.finditer(text):
         ref, block = m.group(1).strip('"'), m.group(2)
         value, part = _field(block, "value"), _field(block, "part")
-        if not (_LEDISH.search(value) or _LEDISH.search(part)):
+        if not (ledish.search(value) or ledish.search(part)):
             continue
         if "OLED" in value.upper() or "OLED" in part.upper():
             continue

@@ -23,7 +23,7 @@ def _res(value: str, footprint: str = "Resistor_SMD:R_0603_1608Metric", **fields
 def test_vf_field_with_test_current_and_spread() -> None:
     p = led_params(_led(Vf="3.0V@10mA"), from_mapping({}))
     assert p.vf.value == 3.0 and p.vf.origin is Origin.FIELD and p.i_test.value == pytest.approx(0.010)
-    # Only a typical Vf given: min and max are typical −10 % and +10 % (the rule).
+    # Only a typical Vf given: min and max are typical −10 % and +10 % (common practice).
     assert (p.vf_min.value, p.vf_max.value) == pytest.approx((2.7, 3.3))
 
 
@@ -64,7 +64,7 @@ def test_field_names_match_without_case_and_die_fields() -> None:
 
 
 def test_non_indicator_package_has_no_assumed_rating() -> None:
-    p = led_params(_led("LED white", "LED_SMD:LED_Cree-XHP50_6V"), from_mapping({}))
+    p = led_params(_led("LED white", "LED_SMD:LED_5050_6V_Power"), from_mapping({}))
     assert isinstance(p.if_max, Missing) and "If_max" in p.if_max.fix
 
 
@@ -94,4 +94,4 @@ def test_pin_limit_default_and_field() -> None:
     u = Component("U1", "MCU", fields=FrozenMap({"pin_current_max": "8mA"}))
     assert pin_limit(u, from_mapping({})).value == pytest.approx(0.008)
     d = pin_limit(Component("U2", "MCU"), from_mapping({}))
-    assert isinstance(d, Param) and d.value == 0.020 and d.assumed  # the 20 mA default
+    assert isinstance(d, Param) and d.value == 0.020 and d.assumed  # the common 20 mA default
