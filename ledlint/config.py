@@ -293,6 +293,9 @@ def load(path: str | Path) -> Config:
     return from_mapping(data, name)
 
 
+_OUR_TABLE = re.compile(r"^\s*\[\s*tool\s*\.\s*ledlint\b", re.M)
+
+
 def discover(netlist_path: str | Path) -> Path | None:
     """The configuration that applies to a netlist: the nearest ledlint.toml, or pyproject.toml
     with a [tool.ledlint] table, in the netlist's folder or a parent folder."""
@@ -304,8 +307,15 @@ def discover(netlist_path: str | Path) -> Path | None:
         py = d / "pyproject.toml"
         if py.is_file():
             try:
-                if "ledlint" in tomllib.loads(py.read_text(encoding="utf-8")).get("tool", {}):
-                    return py
-            except (OSError, UnicodeDecodeError, tomllib.TOMLDecodeError):
+                text = py.read_text(encoding="utf-8")
+            except (OSError, UnicodeDecodeError):
                 continue
+            try:
+                if "ledlint" in tomllib.loads(text).get("tool", {}):
+                    return py
+            except tomllib.TOMLDecodeError:
+                # Broken, but meant for us: load() then reports where, rather than the
+                # settings being silently dropped.
+                if _OUR_TABLE.search(text):
+                    return py
     return None

@@ -122,3 +122,14 @@ def test_discovery_walks_up_and_reads_pyproject(tmp_path) -> None:
     assert load(tmp_path / "pyproject.toml").rails["+5V"].nominal == 5.0
     (tmp_path / "hw" / "ledlint.toml").write_text("")
     assert discover(board) == tmp_path / "hw" / "ledlint.toml"  # the nearest wins
+
+
+def test_broken_pyproject_meant_for_us_is_an_error(tmp_path) -> None:
+    board = tmp_path / "board.net"
+    (tmp_path / "pyproject.toml").write_text('[tool.other\nx = 1\n')
+    assert discover(board) is None  # broken, but not ours: someone else's problem
+    (tmp_path / "pyproject.toml").write_text('[tool.ledlint.rails."+5V"]\nnominal = = 5\n')
+    assert discover(board) == tmp_path / "pyproject.toml"
+    with pytest.raises(ConfigError) as e:
+        load(tmp_path / "pyproject.toml")
+    assert e.value.line == 2  # file, line and column, not silence (tomllib reports the position)
