@@ -133,20 +133,33 @@ def _supply_pins(comp: Component) -> list[Pin]:
             and (p.type is PinType.POWER_IN or re.match(r"^(V|AV|DV|IOV)(CC|DD)", p.name, re.I))]
 
 
+def _rail_fix(net: str, keys: str, what: str = "it") -> str:
+    """How to give a rail its voltage, in words a user can turn into TOML without guessing."""
+    return f"set {what} in ledlint.toml: a table [rails.\"{net}\"] with {keys}"
+
+
+def _supply_rank(p: Pin) -> int:
+    """Which supply pin sets the level of an IC's outputs: its I/O supply, then a VDD or VCC,
+    then the rest (a battery, regulator or analogue pin) (common practice)."""
+    if re.search(r"IO", p.name, re.I):
+        return 0
+    return 1 if re.match(r"^(V|DV)(CC|DD)\d*$", p.name, re.I) else 2
+
+
 def _is_ground(net: str | None, config: Config) -> bool:
     r = rail_params(net, config) if net else None
     return r is not None and r.ground
 
 
 def ic_supply(comp: Component, config: Config) -> tuple[Range, str] | None:
-    """The positive rail an IC runs from: the I/O supply if named, else its highest known rail."""
+    """The positive rail an IC runs from: its best-ranked supply pin with a known rail, the highest
+    of those."""
     found = []
     for p in _supply_pins(comp):
         r = rail_params(p.net, config)  # type: ignore[arg-type]
         if r is not None and not r.ground and r.nominal > 0:
-            io = bool(re.search(r"IO", p.name, re.I))
-            found.append((io, r.nominal, Range(r.nominal, r.minimum, r.maximum), f"{comp.ref} runs from "
-                          f"{p.net} ({r.nominal:g} V, pin {p.name or p.number}; {r.detail})"))
+            found.append((-_supply_rank(p), r.nominal, Range(r.nominal, r.minimum, r.maximum), f"{comp.ref} runs "
+                          f"from {p.net} ({r.nominal:g} V, pin {p.name or p.number}; {r.detail})"))
     if not found:
         return None
     best = max(found, key=lambda f: (f[0], f[1]))
@@ -185,18 +198,26 @@ class _Context:
                 return Range.fixed(0.0), pr
             sup = ic_supply(ic, self.config)
             if sup is None:
-                nets = sorted({p.net for p in _supply_pins(ic) if not _is_ground(p.net, self.config)})
+                pins = sorted((p for p in _supply_pins(ic) if not _is_ground(p.net, self.config)),
+                              key=lambda p: (_supply_rank(p), p.net))
+                nets = list(dict.fromkeys(p.net for p in pins))  # the one setting the output level first
                 where = f"its supply pins are on {', '.join(nets)}" if nets else "no supply pin of it is connected"
                 example = nets[0] if nets else "NET"
                 missing.append(Missing("supply voltage", f"{ic.ref} drives LEDs, and {where}, with no voltage "
-                                       "known", f"set it in ledlint.toml: [rails.\"{example}\"] nominal = 3.3"))
+                                       "known", _rail_fix(example, "nominal = 3.3")))
                 return None
             basis.append(f"{t.detail} sources its supply: {sup[1]}; output resistance "
                          f"{pr.minimum:g}-{pr.maximum:g} Ω assumed")
             return sup[0], pr
         if t.kind is TerminalKind.SUPPLY:
-            missing.append(Missing("supply voltage", f"net {t.net} ({t.detail}) has no voltage in its name",
-                                   f"set it in ledlint.toml: [rails.\"{t.net}\"] nominal = 5.0"))
+            fix = _rail_fix(t.net, "nominal = 5.0")
+            if t.pin is not None and classify(self.comp(t.pin.ref)) is Kind.BRIDGE:
+                # A bridge's output peaks at √2 × the AC RMS (less two diode drops); unsmoothed it
+                # also falls to 0 V each half cycle, which a DC rail cannot describe.
+                fix = (_rail_fix(t.net, "nominal = 325 and tolerance = 0.1", "its peak") +
+                       " (√2 × 230 V AC ±10 %; 170 for 120 V AC); if it is not smoothed it also falls to 0 V "
+                       "every half cycle, so check the dark part of the cycle by hand")
+            missing.append(Missing("supply voltage", f"net {t.net} ({t.detail}) has no voltage in its name", fix))
             return None
         missing.append(Missing("supply", f"net {t.net} is not a supply", "describe how this LED is powered"))
         return None

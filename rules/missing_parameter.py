@@ -13,7 +13,7 @@ Why it matters
 
 Example
     D2 is "LED" with no colour on a net named VCC: "supply voltage: net VCC has no voltage
-    in its name; set it in ledlint.toml: [rails."VCC"] nominal = 5.0" and "Vf: the colour
+    in its name; set it in ledlint.toml: a table [rails."VCC"] with nominal = 5.0" and "Vf: the colour
     is not stated; add a field Vf (e.g. Vf = 2.0V@20mA)".
 
 Fix
@@ -50,9 +50,15 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
         refs = tuple(dict.fromkeys(r for a in analyses for r in a.circuit.refs))
         nets = tuple(dict.fromkeys(n for a in analyses for n in a.circuit.nets))
         gap = any(m.name == name and m.fix == fix for a in analyses for m in a.gaps)
-        # A gap leaves the other rules running; only current-margin lacked what it needs.
-        template = ("{name} unknown, so current-margin could not judge {leds}: {reason}" if gap else
-                    "{name} unknown, so {leds} could not be checked: {reason}")
+        partly = all(a.solved for a in analyses)
+        # A gap leaves the other rules running; only current-margin lacked what it needs. A
+        # current sink or driver sets its current without the supply, so only the headroom waits.
+        if gap:
+            template = "{name} unknown, so current-margin could not judge {leds}: {reason}"
+        elif partly:
+            template = "{name} unknown, so the headroom of {leds} could not be checked: {reason}"
+        else:
+            template = "{name} unknown, so {leds} could not be checked: {reason}"
         yield ctx.finding(first, Severity.INFO, template, refs=refs, nets=nets, name=name, leds=ids(leds),
                           reason=reason, hint=fix, topic=name)
 

@@ -37,6 +37,11 @@ SYMBOLS: dict[str, tuple[str, str, str, str, tuple[tuple[str, str, str], ...]]] 
              (("1", "VDD", "power_in"), ("2", "PA0", "bidirectional"), ("3", "PA1", "bidirectional"),
               ("4", "PA2", "bidirectional"), ("5", "PA3", "bidirectional"), ("6", "PA4", "bidirectional"),
               ("7", "PA5", "bidirectional"), ("8", "VSS", "power_in"))),
+    # The same with a backup-battery pin, which does not set the port pins' level.
+    "MCU8B": ("ledlint_demo", "MCU8B", "8-pin microcontroller with battery backup (demo part)", "MCU",
+              (("1", "VBAT", "power_in"), ("2", "PA0", "bidirectional"), ("3", "PA1", "bidirectional"),
+               ("4", "VDD", "power_in"), ("5", "PA3", "bidirectional"), ("6", "PA4", "bidirectional"),
+               ("7", "PA5", "bidirectional"), ("8", "VSS", "power_in"))),
     # An invented constant-current sink: one output, sense, supply and ground.
     "CCSINK": ("ledlint_demo", "CCSINK", "Linear LED current sink (demo part)", "LED driver",
                (("1", "VIN", "power_in"), ("2", "OUT", "passive"), ("3", "CS", "input"),

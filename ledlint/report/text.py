@@ -57,7 +57,7 @@ def _amps(x: float | None) -> str:
     return "—" if x is None else quantity(x, "A")
 
 
-def _short(text: str, limit: int = 48) -> str:
+def _short(text: str, limit: int = 64) -> str:
     return text if len(text) <= limit else text[: limit - 1] + "…"
 
 
@@ -78,6 +78,17 @@ def _circuit_table(rows: list[CircuitRow]) -> Table:
     return table
 
 
+def _print_wide(console: Console, table: Table) -> None:
+    """A table at its natural width (up to 200 columns): squeezed to a terminal's 80 or 100, net
+    names and notes shrink to "/m…", and a reviewer would rather scroll than guess."""
+    saved = console.width
+    console.width = max(saved, console.measure(table, options=console.options.update_width(200)).maximum)
+    try:
+        console.print(table)
+    finally:
+        console.width = saved
+
+
 def _file(console: Console, fr: FileResult, circuits: bool) -> None:
     n = fr.netlist
     analysed = sum(a.solved for a in fr.board.analyses)
@@ -93,7 +104,7 @@ def _file(console: Console, fr: FileResult, circuits: bool) -> None:
     if not fr.findings:
         console.print("  no findings")
     if circuits and fr.board.analyses:
-        console.print(_circuit_table([row(fr.path, a) for a in fr.board.analyses]))
+        _print_wide(console, _circuit_table([row(fr.path, a) for a in fr.board.analyses]))
     for c in fr.board.cautions:
         console.print(f"[bold red]CAUTION[/] {escape(c)}. {SAFETY}")
     console.print()

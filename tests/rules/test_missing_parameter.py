@@ -2,6 +2,9 @@
 
 from __future__ import annotations
 
+import math
+import re
+
 from pathlib import Path
 
 from kicad8 import Board
@@ -38,7 +41,12 @@ def test_rail_of_unknown_voltage(tmp_path: Path) -> None:
     f = only(run_board(indicator("red", rail="VCC"), tmp_path), "missing-parameter")
     assert f.nets == ("VCC", "GND")
     assert f.message.startswith("supply voltage unknown")
-    assert '[rails."VCC"] nominal' in f.hint
+    # Following the hint literally makes a configuration that gets the circuit checked.
+    m = re.search(r"a table (\[rails\.[^\]]+\]) with (.*)$", f.hint)
+    assert m and m.group(1) == '[rails."VCC"]'
+    config = m.group(1) + "\n" + m.group(2).replace(" and ", "\n") + "\n"
+    followed = run_board(indicator("red", rail="VCC"), tmp_path, config)
+    assert of_rule(followed, "missing-parameter") == [] and all(a.solved for a in followed.board.analyses)
 
 
 def test_unreadable_resistor_value(tmp_path: Path) -> None:
@@ -68,3 +76,47 @@ def test_rating_unknown_is_reported(tmp_path: Path) -> None:
     b.led("D2", "white", "Net-(D2-A)", "GND", footprint="LED_SMD:LED_PLCC_2835", Vf="3.0V@60mA")
     f = only(run_board(b, tmp_path), "missing-parameter")
     assert f.message.startswith("If_max unknown") and "add a field If_max" in f.hint
+
+
+def test_rectified_supply_asks_for_its_peak(tmp_path: Path) -> None:
+    """A string behind a bridge: the hint explains the rectified peak, √2 × RMS (a fact of the trade)."""
+    b = Board("mains", "rectified string fixture")
+    b.add("J1", "Conn_01x02", "AC_IN", "Connector:Conn_01x02", {"1": "/AC1", "2": "/AC2"})
+    b.add("BR1", "D_Bridge_+-AA", "DB107", "Diode_THT:Diode_Bridge_DIP-4", {"1": "/RECT", "2": "GND", "3": "/AC1",
+                                                                            "4": "/AC2"})
+    nets = ["/RECT"] + [f"/S{i}" for i in range(1, 100)] + ["GND"]
+    b.resistor("R1", "10k", "/RECT", "/S1", footprint="Resistor_THT:R_Axial_DIN0414_L11.9mm_D4.5mm_P15.24mm_Horizontal")
+    for i in range(1, 100):
+        b.led(f"D{i}", "red", nets[i], nets[i + 1])
+    f = only(run_board(b, tmp_path), "missing-parameter")
+    assert "rectifier BR1" in f.message and "√2 × 230 V AC" in f.hint
+    m = re.search(r"a table (\[rails\.[^\]]+\]) with (.*?) \(", f.hint)
+    assert m and m.group(1) == '[rails."/RECT"]'
+    # 325 V is √2 × 230 V (324.3 V) rounded, the usual figure for 230 V mains (fact of the trade).
+    assert abs(math.sqrt(2) * 230 - 325) < 1
+    config = m.group(1) + "\n" + m.group(2).replace(" and ", "\n") + "\n"
+    followed = run_board(b, tmp_path, config)
+    assert of_rule(followed, "missing-parameter") == [] and all(a.solved for a in followed.board.analyses)
+    assert followed.board.cautions  # the mains caution stays (brief: mains or > 60 V DC)
+
+
+def _pin_driven(vbat: str, vdd: str) -> Board:
+    b = Board("pin", "pin-driven fixture")
+    b.add("U1", "MCU8B", "MCU", "Package_SO:SOIC-8_3.9x4.9mm_P1.27mm",
+          {"1": vbat, "2": "/LED", "4": vdd, "8": "GND"})
+    b.resistor("R1", "330", "/LED", "Net-(D1-A)")
+    b.led("D1", "red", "Net-(D1-A)", "GND")
+    return b
+
+
+def test_pin_supply_hint_names_the_io_supply(tmp_path: Path) -> None:
+    """The port pins run from VDD, not from the backup-battery pin (common practice)."""
+    f = only(run_board(_pin_driven("/VBAT", "VCC"), tmp_path), "missing-parameter")
+    assert f.message.startswith("supply voltage unknown") and "VCC, /VBAT" in f.message
+    assert '[rails."VCC"]' in f.hint
+
+
+def test_pin_drive_level_is_vdd_even_with_a_higher_battery(tmp_path: Path) -> None:
+    result = run_board(_pin_driven("+3V6", "+3V3"), tmp_path)
+    a = result.board.analyses[0]
+    assert a.solved and a.supply.volts.nominal == 3.3 and "runs from +3V3" in a.supply.basis[0]
