@@ -10,6 +10,7 @@ from rich.markup import escape
 from rich.table import Table
 
 from ledlint.findings import Finding, Severity, quantity
+from ledlint.recognise import CircuitKind
 from ledlint.report.circuits import CircuitRow, row
 from ledlint.run import FileResult, RunResult
 
@@ -53,6 +54,10 @@ def _finding(f: Finding, width: int) -> list[str]:
     return lines
 
 
+# Circuit kinds that are never analysed electrically, named as they are in the table.
+_NOT_RUN = (CircuitKind.ADDRESSABLE, CircuitKind.MULTIPLEXED, CircuitKind.NOT_FITTED, CircuitKind.UNRECOGNISED)
+
+
 def _amps(x: float | None) -> str:
     return "—" if x is None else quantity(x, "A")
 
@@ -78,6 +83,19 @@ def _circuit_table(rows: list[CircuitRow]) -> Table:
     return table
 
 
+def _coverage(fr: FileResult) -> str:
+    """How many circuits were analysed, and why the others were not: a skipped circuit must not
+    read as a passed one."""
+    skipped: dict[str, int] = {}
+    for a in fr.board.analyses:
+        if not a.solved:
+            kind = a.circuit.kind
+            why = kind.value if kind in _NOT_RUN else "missing a value"
+            skipped[why] = skipped.get(why, 0) + 1
+    analysed = len(fr.board.analyses) - sum(skipped.values())
+    return ", ".join([f"{analysed} analysed"] + [f"{k} {why}" for why, k in sorted(skipped.items())])
+
+
 def _print_wide(console: Console, table: Table) -> None:
     """A table at its natural width (up to 200 columns): squeezed to a terminal's 80 or 100, net
     names and notes shrink to "/m…", and a reviewer would rather scroll than guess."""
@@ -91,10 +109,9 @@ def _print_wide(console: Console, table: Table) -> None:
 
 def _file(console: Console, fr: FileResult, circuits: bool) -> None:
     n = fr.netlist
-    analysed = sum(a.solved for a in fr.board.analyses)
     leds = sum(len(c.leds) for c in fr.board.circuits)
     console.print(f"[bold]{escape(fr.path)}[/]  {leds} LED(s) in {len(fr.board.circuits)} circuit(s), "
-                  f"{analysed} analysed · {escape(n.tool or 'unknown tool')}", soft_wrap=True)
+                  f"{_coverage(fr)} · {escape(n.tool or 'unknown tool')}", soft_wrap=True)
     for note in n.notes:
         console.print(f"  [dim]reader note, line {note.line}: {escape(note.message)}[/]")
     if fr.findings:
