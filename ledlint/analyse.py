@@ -8,11 +8,10 @@ headroom, reverse voltage, electro-thermal loop gain. Knows nothing of rules.
 
 from __future__ import annotations
 
-import re
 import zlib
 from dataclasses import dataclass, field, replace
 from ledlint.frozen import FrozenMap
-from typing import Generator, Mapping
+from typing import Mapping
 
 import numpy as np
 
@@ -20,31 +19,22 @@ from ledlint.config import Config
 from ledlint.drive import VCE_SAT, SetCurrent, driver_current, sink_current
 from ledlint.engine import Branch as EBranch
 from ledlint.engine import Circuit as ECircuit
-from ledlint.engine import (Corners, LedSpec, ModelError, Range, Solution, corners_many, forward_voltage,
-                            loop_gains_many, monte_carlo)
+from ledlint.batch import Job, solve_all
+from ledlint.engine import Corners, LedSpec, ModelError, Range, Solution, forward_voltage, monte_carlo
 from ledlint.graph import NetGraph
-from ledlint.model import Component, Netlist, Pin, PinType
-from ledlint.params import (PIN_RESISTANCE, LedParams, Missing, Param, ResistorParams, led_params, pin_limit,
+from ledlint.model import Component, Netlist, Pin
+from ledlint.params import (LedParams, Missing, Param, ResistorParams, led_params, pin_limit,
                             rail_params, resistor_params)
-from ledlint.parts import Kind, classify
-from ledlint.rails import is_mains_name
+from ledlint.parts import Kind
 from ledlint.recognise import CircuitKind, LedCircuit, recognise
+from ledlint.supplies import Supply, cautions, circuit_supply, end_voltage, ic_supply
 from ledlint.topology import Element, ElementKind, Terminal, TerminalKind
 
 # Switch drops: a saturated BJT (VCE_SAT) and a small-signal MOSFET's on-resistance,
 # ≤ 7.5 Ω at V_GS = 5 V (field-facts §9, 2N7002); a silicon diode in series at a few mA.
 R_DS_ON = Range(2.0, 0.0, 7.5)
 V_DIODE = Range(0.7, 0.6, 1.0)
-HIGH_VOLTAGE = 60.0  # V DC: above it the usual safety caution applies (SELV limit, common practice)
 MC_SAMPLES = 2000  # per bank in a check; the benchmark runs 10,000
-Request = tuple  # (engine circuit, whether its loop gain is wanted)
-Answer = tuple  # (its Corners, its loop gain or None)
-
-
-@dataclass(frozen=True)
-class Supply:
-    volts: Range  # source minus return
-    basis: tuple[str, ...]
 
 
 @dataclass(frozen=True)
@@ -120,52 +110,6 @@ class BoardAnalysis:
     parts: Mapping[str, Component] = field(default_factory=lambda: FrozenMap({}))
 
 
-def _add(a: Range, b: Range) -> Range:
-    return Range(a.nominal + b.nominal, a.minimum + b.minimum, a.maximum + b.maximum)
-
-
-def _sub(a: Range, b: Range) -> Range:
-    return Range(a.nominal - b.nominal, a.minimum - b.maximum, a.maximum - b.minimum)
-
-
-def _supply_pins(comp: Component) -> list[Pin]:
-    return [p for p in comp.pins if p.net is not None
-            and (p.type is PinType.POWER_IN or re.match(r"^(V|AV|DV|IOV)(CC|DD)", p.name, re.I))]
-
-
-def _rail_fix(net: str, keys: str, what: str = "it") -> str:
-    """How to give a rail its voltage, in words a user can turn into TOML without guessing."""
-    return f"set {what} in ledlint.toml: a table [rails.\"{net}\"] with {keys}"
-
-
-def _supply_rank(p: Pin) -> int:
-    """Which supply pin sets the level of an IC's outputs: its I/O supply, then a VDD or VCC,
-    then the rest (a battery, regulator or analogue pin) (common practice)."""
-    if re.search(r"IO", p.name, re.I):
-        return 0
-    return 1 if re.match(r"^(V|DV)(CC|DD)\d*$", p.name, re.I) else 2
-
-
-def _is_ground(net: str | None, config: Config) -> bool:
-    r = rail_params(net, config) if net else None
-    return r is not None and r.ground
-
-
-def ic_supply(comp: Component, config: Config) -> tuple[Range, str] | None:
-    """The positive rail an IC runs from: its best-ranked supply pin with a known rail, the highest
-    of those."""
-    found = []
-    for p in _supply_pins(comp):
-        r = rail_params(p.net, config)  # type: ignore[arg-type]
-        if r is not None and not r.ground and r.nominal > 0:
-            found.append((-_supply_rank(p), r.nominal, Range(r.nominal, r.minimum, r.maximum), f"{comp.ref} runs "
-                          f"from {p.net} ({r.nominal:g} V, pin {p.name or p.number}; {r.detail})"))
-    if not found:
-        return None
-    best = max(found, key=lambda f: (f[0], f[1]))
-    return best[2], best[3]
-
-
 class _Context:
     def __init__(self, netlist: Netlist, graph: NetGraph, config: Config) -> None:
         self.netlist, self.graph, self.config = netlist, graph, config
@@ -177,61 +121,6 @@ class _Context:
         assert c is not None
         return c
 
-    def end_voltage(self, t: Terminal | None, high: bool, missing: list[Missing],
-                    basis: list[str]) -> tuple[Range, Range] | None:
-        """(voltage, series resistance) of a circuit end; `high` for the source end."""
-        if t is None:
-            return None
-        if t.kind is TerminalKind.GROUND:
-            basis.append(f"{t.net} is ground ({t.detail})")
-            return Range.fixed(0.0), Range.fixed(0.0)
-        if t.kind is TerminalKind.RAIL:
-            r = rail_params(t.net, self.config)
-            assert r is not None
-            basis.append(f"{t.net} {r.minimum:g}-{r.maximum:g} V ({r.detail})")
-            return Range(r.nominal, r.minimum, r.maximum), Range.fixed(0.0)
-        if t.kind is TerminalKind.PIN and t.pin is not None:
-            pr = Range(PIN_RESISTANCE[1], PIN_RESISTANCE[0], PIN_RESISTANCE[2])
-            ic = self.comp(t.pin.ref)
-            if not high:
-                basis.append(f"{t.detail} sinks at 0 V, output resistance {pr.minimum:g}-{pr.maximum:g} Ω assumed")
-                return Range.fixed(0.0), pr
-            sup = ic_supply(ic, self.config)
-            if sup is None:
-                pins = sorted((p for p in _supply_pins(ic) if not _is_ground(p.net, self.config)),
-                              key=lambda p: (_supply_rank(p), p.net))
-                nets = list(dict.fromkeys(p.net for p in pins))  # the one setting the output level first
-                where = f"its supply pins are on {', '.join(nets)}" if nets else "no supply pin of it is connected"
-                example = nets[0] if nets else "NET"
-                missing.append(Missing("supply voltage", f"{ic.ref} drives LEDs, and {where}, with no voltage "
-                                       "known", _rail_fix(example, "nominal = 3.3")))
-                return None
-            basis.append(f"{t.detail} sources its supply: {sup[1]}; output resistance "
-                         f"{pr.minimum:g}-{pr.maximum:g} Ω assumed")
-            return sup[0], pr
-        if t.kind is TerminalKind.SUPPLY:
-            fix = _rail_fix(t.net, "nominal = 5.0")
-            if t.pin is not None and classify(self.comp(t.pin.ref)) is Kind.BRIDGE:
-                # A bridge's output peaks at √2 × the AC RMS (less two diode drops); unsmoothed it
-                # also falls to 0 V each half cycle, which a DC rail cannot describe.
-                fix = (_rail_fix(t.net, "nominal = 325 and tolerance = 0.1", "its peak") +
-                       " (√2 × 230 V AC ±10 %; 170 for 120 V AC); if it is not smoothed it also falls to 0 V "
-                       "every half cycle, so check the dark part of the cycle by hand")
-            missing.append(Missing("supply voltage", f"net {t.net} ({t.detail}) has no voltage in its name", fix))
-            return None
-        missing.append(Missing("supply", f"net {t.net} is not a supply", "describe how this LED is powered"))
-        return None
-
-    def supply(self, source: Terminal | None, ret: Terminal | None,
-               missing: list[Missing]) -> tuple[Supply, Range] | None:
-        """Voltage across a circuit (source minus return) and the resistance its ends add."""
-        basis: list[str] = []
-        top = self.end_voltage(source, True, missing, basis)
-        bottom = self.end_voltage(ret, False, missing, basis)
-        if top is None or bottom is None:
-            return None
-        return Supply(_sub(top[0], bottom[0]), tuple(basis)), _add(top[1], bottom[1])
-
     def led_spec(self, p: LedParams, tj_hint: float | None = None) -> LedSpec:
         vf = Range(p.vf.value, p.vf_min.value, p.vf_max.value)  # type: ignore[union-attr]
         return LedSpec(vf=vf, i_test=p.i_test.value, n=p.n, r_s=p.r_s, tc=p.tc.value,
@@ -242,7 +131,7 @@ def _resistance(params: list[ResistorParams]) -> Range:
     total = Range.fixed(0.0)
     for p in params:
         r = p.resistance.value  # type: ignore[union-attr]
-        total = _add(total, Range.tolerance(r, p.tolerance.value))
+        total = total + Range.tolerance(r, p.tolerance.value)
     return total
 
 
@@ -252,16 +141,16 @@ def _path_drops(elements: tuple[Element, ...], assumptions: list[str]) -> tuple[
     for e in elements:
         if e.kind is ElementKind.SWITCH:
             if e.part in (Kind.NPN, Kind.PNP):
-                v = _add(v, VCE_SAT)
+                v = v + VCE_SAT
                 assumptions.append(f"{e.ref} saturated: V_CE {VCE_SAT.minimum:g}-{VCE_SAT.maximum:g} V "
                                    "(small-signal BJT, common practice)")
             else:
-                r = _add(r, R_DS_ON)
+                r = r + R_DS_ON
                 assumptions.append(f"{e.ref} on: R_DS(on) up to {R_DS_ON.maximum:g} Ω (small-signal MOSFET)")
             if e.assumption:
                 assumptions.append(f"{e.ref}: {e.assumption}")
         elif e.kind is ElementKind.DIODE:
-            v = _add(v, V_DIODE)
+            v = v + V_DIODE
             assumptions.append(f"{e.ref} in series: {V_DIODE.minimum:g}-{V_DIODE.maximum:g} V forward drop")
     return v, r
 
@@ -278,7 +167,7 @@ class _Analyser:
         return [led_params(self.ctx.comp(e.ref), self.ctx.config, e.die) for e in elements
                 if e.kind is ElementKind.LED]
 
-    def run(self, c: LedCircuit) -> Analysis | Generator[list[Request], list[Answer], Analysis]:
+    def run(self, c: LedCircuit) -> Analysis | Job[Analysis]:
         """An Analysis, or a generator that yields the engine circuits it needs solved first."""
         if c.kind in (CircuitKind.STRING, CircuitKind.BANK) and not c.blocked:
             return self.voltage_driven(c)
@@ -289,7 +178,7 @@ class _Analyser:
         return Analysis(c)
 
     # -------------------------------------------------------------- voltage drive
-    def voltage_driven(self, c: LedCircuit) -> Generator[list[Request], list[Answer], Analysis]:
+    def voltage_driven(self, c: LedCircuit) -> Job[Analysis]:
         missing: list[Missing] = []
         assumptions: list[str] = []
         branch_leds = [self.led_params_of(b.elements) for b in c.branches]
@@ -311,7 +200,7 @@ class _Analyser:
             assumptions.append("each string is switched by its own pin: analysed as if lit alone")
         else:
             problems = [(c.source, c.ret, list(range(len(c.branches))))]
-        supplies = [self.ctx.supply(src, ret, missing) for src, ret, _ in problems]
+        supplies = [circuit_supply(self.ctx.graph, self.ctx.config, src, ret, missing) for src, ret, _ in problems]
         pin_end = any(t is not None and t.kind is TerminalKind.PIN for src, ret, _ in problems for t in (src, ret))
         unlimited = not limited and not pin_end
         missing = _unique(missing)
@@ -326,7 +215,7 @@ class _Analyser:
             leds, res = [branch_leds[k] for k in ks], [branch_res[k] for k in ks]
             ebranches = tuple(EBranch(tuple(self.ctx.led_spec(p) for p in ps), _resistance(rs))
                               for ps, rs in zip(leds, res))
-            ec = ECircuit(ebranches, supply=supply.volts, r_series=rc, r_switch=_add(r_pin, r_sw), v_switch=v_sw,
+            ec = ECircuit(ebranches, supply=supply.volts, r_series=rc, r_switch=r_pin + r_sw, v_switch=v_sw,
                           ambient=self.ctx.ambient)
             plans.append((src, ret, ec, leds, res))
         answers = yield [(ec, True) for _, _, ec, _, _ in plans]
@@ -383,7 +272,7 @@ class _Analyser:
     # -------------------------------------------------------------- blocked
     def blocked(self, c: LedCircuit) -> Analysis:
         missing: list[Missing] = []
-        sup = self.ctx.supply(c.source, c.ret, missing)
+        sup = circuit_supply(self.ctx.graph, self.ctx.config, c.source, c.ret, missing)
         leds = self.led_params_of(c.branches[0].elements)
         opposed = {e.id for e in c.branches[0].elements if e.kind is ElementKind.LED and e.against}
         if sup is None:
@@ -395,7 +284,7 @@ class _Analyser:
                         leds=results)
 
     # -------------------------------------------------------------- current drive
-    def current_driven(self, c: LedCircuit) -> Generator[list[Request], list[Answer], Analysis]:
+    def current_driven(self, c: LedCircuit) -> Job[Analysis]:
         rail = None
         if c.sink is not None:
             ref = c.sink.reference
@@ -474,7 +363,7 @@ class _Analyser:
         if top is None:
             return None
         basis: list[str] = []
-        got = self.ctx.end_voltage(top, True, missing, basis)
+        got = end_voltage(self.ctx.graph, self.ctx.config, top, True, missing, basis)
         return (Supply(got[0], tuple(basis)), got[1]) if got else None
 
     def _spec_or_stand_in(self, p: LedParams) -> LedSpec:
@@ -560,106 +449,19 @@ def _unique(items: list[Missing]) -> list[Missing]:
     return out
 
 
-def cautions(netlist: Netlist, circuits: tuple[LedCircuit, ...], analyses: tuple[Analysis, ...],
-             config: Config) -> tuple[str, ...]:
-    """Where the board shows mains or more than 60 V DC (the usual safety caution)."""
-    out = []
-    mains = sorted({n.name for n in netlist.nets if is_mains_name(n.name)})
-    if mains:
-        out.append(f"mains nets on the board: {', '.join(mains[:5])}")
-    bridges = sorted({c.source.pin.ref for c in circuits if c.source and c.source.pin
-                      and classify(netlist.component(c.source.pin.ref) or Component("", "")) is Kind.BRIDGE})
-    if bridges:
-        out.append(f"LEDs fed by rectifier {', '.join(bridges)} (an AC input, possibly mains)")
-    high = sorted({a.circuit.id for a in analyses if a.supply and max(abs(a.supply.volts.maximum),
-                                                                       abs(a.supply.volts.minimum)) > HIGH_VOLTAGE})
-    if high:
-        out.append(f"LED circuits above {HIGH_VOLTAGE:g} V DC: {', '.join(high)}")
-    for n in netlist.nets:
-        r = rail_params(n.name, config)
-        if r and not r.ground and max(abs(r.maximum), abs(r.minimum)) > HIGH_VOLTAGE:
-            out.append(f"net {n.name} at {r.nominal:g} V")
-    return tuple(dict.fromkeys(out))
-
-
-def _solve_all(circuits: tuple[LedCircuit, ...],
-               items: list[Analysis | Generator[list[Request], list[Answer], Analysis]]) -> list[Analysis]:
-    """Run the analyses, solving what they ask for in batches: one engine solve per circuit shape.
-
-    A circuit the engine cannot model (absurd part values) gets a finding-ready Missing; it
-    never takes the rest of the board with it.
-    """
-    done: dict[int, Analysis] = {}
-    waiting: dict[int, tuple[Generator[list[Request], list[Answer], Analysis], list[Request]]] = {}
-
-    def unmodelled(i: int, exc: ModelError) -> None:
-        done[i] = Analysis(circuits[i], missing=(Missing("a usable model", f"the part values cannot be modelled: "
-                                                         f"{exc.message}", "check the LED and resistor values"),))
-
-    def advance(i: int, g: Generator[list[Request], list[Answer], Analysis], answer: list[Answer] | None) -> None:
-        try:
-            waiting[i] = (g, g.send(answer) if answer is not None else next(g))
-        except StopIteration as stop:
-            done[i] = stop.value
-        except ModelError as exc:
-            unmodelled(i, exc)
-
-    for i, item in enumerate(items):
-        if isinstance(item, Analysis):
-            done[i] = item
-        else:
-            advance(i, item, None)
-    while waiting:
-        batch = list(waiting.items())
-        waiting.clear()
-        wanted = [ec for _, (_, reqs) in batch for ec, _ in reqs]
-        cors = _corners(wanted)
-        with_gain = list(dict.fromkeys(ec for _, (_, reqs) in batch for ec, g in reqs if g))
-        gains = dict(zip(with_gain, (None if lg is None else lg.gain for lg in _loop_gains(with_gain))))
-        for i, (g, reqs) in batch:
-            failed = next((cors[ec] for ec, _ in reqs if isinstance(cors[ec], ModelError)), None)
-            if failed is not None:
-                unmodelled(i, failed)
-                continue
-            advance(i, g, [(cors[ec], gains.get(ec) if want else None) for ec, want in reqs])
-    return [done[i] for i in range(len(items))]
-
-
-def _corners(circuits: list[ECircuit]) -> dict[ECircuit, Corners | ModelError]:
-    try:
-        return dict(zip(circuits, corners_many(circuits)))
-    except ModelError:  # find the culprit: one bad group must not lose the rest
-        out: dict[ECircuit, Corners | ModelError] = {}
-        for ec in dict.fromkeys(circuits):
-            try:
-                out[ec] = corners_many([ec])[0]
-            except ModelError as exc:
-                out[ec] = exc
-        return out
-
-
-def _loop_gains(circuits: list[ECircuit]) -> list:
-    try:
-        return loop_gains_many(circuits)
-    except ModelError:  # one bad group must not lose the rest: fall back circuit by circuit
-        out = []
-        for ec in circuits:
-            try:
-                out.append(loop_gains_many([ec])[0])
-            except ModelError:
-                out.append(None)
-        return out
-
-
 def analyse(netlist: Netlist, config: Config) -> BoardAnalysis:
     """Recognise and analyse every LED circuit of a netlist."""
     graph = NetGraph(netlist)
     circuits = recognise(graph, config)
     analyser = _Analyser(_Context(netlist, graph, config))
-    analyses = tuple(_solve_all(circuits, [analyser.run(c) for c in circuits]))
+    def unmodelled(i: int, exc: ModelError) -> Analysis:
+        return Analysis(circuits[i], missing=(Missing("a usable model", f"the part values cannot be modelled: "
+                                                      f"{exc.message}", "check the LED and resistor values"),))
+
+    analyses = tuple(solve_all([analyser.run(c) for c in circuits], lambda x: isinstance(x, Analysis), unmodelled))
     given = config.ambient_set
     ambient = (f"ambient {config.ambient_min_c:g} to {config.ambient_max_c:g} °C "
                f"({config.path + ' [ambient]' if given else 'the default for an indoor product; set [ambient]'})")
     analyses = tuple(replace(a, ambient_basis=ambient) if a.solved else a for a in analyses)
-    return BoardAnalysis(netlist, circuits, analyses, cautions(netlist, circuits, analyses, config),
-                         FrozenMap({c.ref: c for c in netlist.components}))
+    caution = cautions(netlist, [c.source for c in circuits], [(a.circuit.id, a.supply) for a in analyses], config)
+    return BoardAnalysis(netlist, circuits, analyses, caution, FrozenMap({c.ref: c for c in netlist.components}))

@@ -22,6 +22,7 @@ ORDER = [
     {"topology"},
     {"recognise"},
     {"engine"},
+    {"batch", "supplies"},
     {"drive"},
     {"analyse"},
     {"sizing"},

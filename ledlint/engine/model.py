@@ -52,6 +52,14 @@ class Range:
         spread = abs(_finite("nominal", nominal)) * rel
         return cls(nominal, nominal - spread, nominal + spread)
 
+    def __add__(self, other: Range) -> Range:
+        """Interval sum: the extremes add."""
+        return Range(self.nominal + other.nominal, self.minimum + other.minimum, self.maximum + other.maximum)
+
+    def __sub__(self, other: Range) -> Range:
+        """Interval difference: least minus most, most minus least."""
+        return Range(self.nominal - other.nominal, self.minimum - other.maximum, self.maximum - other.minimum)
+
 
 def _non_negative(name: str, r: Range) -> None:
     if r.minimum < 0:

@@ -1,0 +1,146 @@
+"""Supplies: the voltage across each end of an LED circuit, what it rests on, and safety cautions.
+
+A circuit end is a rail (its voltage from the net name or the configuration), ground, a
+controller pin (its IC's supply, through the pin's output resistance) or a supply whose
+voltage nobody stated; the last gets a Missing that says how to state it.
+"""
+
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass
+from typing import Iterable
+
+from ledlint.config import Config
+from ledlint.engine import Range
+from ledlint.graph import NetGraph
+from ledlint.model import Component, Netlist, Pin, PinType
+from ledlint.params import PIN_RESISTANCE, Missing, rail_params
+from ledlint.parts import Kind, classify
+from ledlint.rails import is_mains_name
+from ledlint.topology import Terminal, TerminalKind
+
+HIGH_VOLTAGE = 60.0  # V DC: above it the usual safety caution applies (SELV limit, common practice)
+
+
+@dataclass(frozen=True)
+class Supply:
+    volts: Range  # source minus return
+    basis: tuple[str, ...]
+
+
+def _supply_pins(comp: Component) -> list[Pin]:
+    return [p for p in comp.pins if p.net is not None
+            and (p.type is PinType.POWER_IN or re.match(r"^(V|AV|DV|IOV)(CC|DD)", p.name, re.I))]
+
+
+def _rail_fix(net: str, keys: str, what: str = "it") -> str:
+    """How to give a rail its voltage, in words a user can turn into TOML without guessing."""
+    return f"set {what} in ledlint.toml: a table [rails.\"{net}\"] with {keys}"
+
+
+def _supply_rank(p: Pin) -> int:
+    """Which supply pin sets the level of an IC's outputs: its I/O supply, then a VDD or VCC,
+    then the rest (a battery, regulator or analogue pin) (common practice)."""
+    if re.search(r"IO", p.name, re.I):
+        return 0
+    return 1 if re.match(r"^(V|DV)(CC|DD)\d*$", p.name, re.I) else 2
+
+
+def _is_ground(net: str | None, config: Config) -> bool:
+    r = rail_params(net, config) if net else None
+    return r is not None and r.ground
+
+
+def ic_supply(comp: Component, config: Config) -> tuple[Range, str] | None:
+    """The positive rail an IC runs from: its best-ranked supply pin with a known rail, the highest
+    of those."""
+    found = []
+    for p in _supply_pins(comp):
+        r = rail_params(p.net, config)  # type: ignore[arg-type]
+        if r is not None and not r.ground and r.nominal > 0:
+            found.append((-_supply_rank(p), r.nominal, Range(r.nominal, r.minimum, r.maximum), f"{comp.ref} runs "
+                          f"from {p.net} ({r.nominal:g} V, pin {p.name or p.number}; {r.detail})"))
+    if not found:
+        return None
+    best = max(found, key=lambda f: (f[0], f[1]))
+    return best[2], best[3]
+
+
+def end_voltage(graph: NetGraph, config: Config, t: Terminal | None, high: bool, missing: list[Missing],
+                basis: list[str]) -> tuple[Range, Range] | None:
+    """(voltage, series resistance) of a circuit end; `high` for the source end."""
+    if t is None:
+        return None
+    if t.kind is TerminalKind.GROUND:
+        basis.append(f"{t.net} is ground ({t.detail})")
+        return Range.fixed(0.0), Range.fixed(0.0)
+    if t.kind is TerminalKind.RAIL:
+        r = rail_params(t.net, config)
+        assert r is not None
+        basis.append(f"{t.net} {r.minimum:g}-{r.maximum:g} V ({r.detail})")
+        return Range(r.nominal, r.minimum, r.maximum), Range.fixed(0.0)
+    comp = graph.component(t.pin.ref) if t.pin is not None else None
+    if t.kind is TerminalKind.PIN and comp is not None:
+        pr = Range(PIN_RESISTANCE[1], PIN_RESISTANCE[0], PIN_RESISTANCE[2])
+        if not high:
+            basis.append(f"{t.detail} sinks at 0 V, output resistance {pr.minimum:g}-{pr.maximum:g} Ω assumed")
+            return Range.fixed(0.0), pr
+        sup = ic_supply(comp, config)
+        if sup is None:
+            pins = sorted((p for p in _supply_pins(comp) if not _is_ground(p.net, config)),
+                          key=lambda p: (_supply_rank(p), p.net))
+            nets = list(dict.fromkeys(p.net for p in pins))  # the one setting the output level first
+            where = f"its supply pins are on {', '.join(nets)}" if nets else "no supply pin of it is connected"
+            missing.append(Missing("supply voltage", f"{comp.ref} drives LEDs, and {where}, with no voltage "
+                                   "known", _rail_fix(nets[0] if nets else "NET", "nominal = 3.3")))
+            return None
+        basis.append(f"{t.detail} sources its supply: {sup[1]}; output resistance "
+                     f"{pr.minimum:g}-{pr.maximum:g} Ω assumed")
+        return sup[0], pr
+    if t.kind is TerminalKind.SUPPLY:
+        fix = _rail_fix(t.net, "nominal = 5.0")
+        if comp is not None and classify(comp) is Kind.BRIDGE:
+            # A bridge's output peaks at √2 × the AC RMS (less two diode drops); unsmoothed it
+            # also falls to 0 V each half cycle, which a DC rail cannot describe.
+            fix = (_rail_fix(t.net, "nominal = 325 and tolerance = 0.1", "its peak") +
+                   " (√2 × 230 V AC ±10 %; 170 for 120 V AC); if it is not smoothed it also falls to 0 V "
+                   "every half cycle, so check the dark part of the cycle by hand")
+        missing.append(Missing("supply voltage", f"net {t.net} ({t.detail}) has no voltage in its name", fix))
+        return None
+    missing.append(Missing("supply", f"net {t.net} is not a supply", "describe how this LED is powered"))
+    return None
+
+
+def circuit_supply(graph: NetGraph, config: Config, source: Terminal | None, ret: Terminal | None,
+           missing: list[Missing]) -> tuple[Supply, Range] | None:
+    """Voltage across a circuit (source minus return) and the resistance its ends add."""
+    basis: list[str] = []
+    top = end_voltage(graph, config, source, True, missing, basis)
+    bottom = end_voltage(graph, config, ret, False, missing, basis)
+    if top is None or bottom is None:
+        return None
+    return Supply(top[0] - bottom[0], tuple(basis)), top[1] + bottom[1]
+
+
+def cautions(netlist: Netlist, sources: Iterable[Terminal | None], supplies: Iterable[tuple[str, Supply | None]],
+             config: Config) -> tuple[str, ...]:
+    """Where the board shows mains or more than 60 V DC (the usual safety caution): mains net
+    names, circuits fed by a bridge rectifier, circuits and rails above 60 V."""
+    out = []
+    mains = sorted({n.name for n in netlist.nets if is_mains_name(n.name)})
+    if mains:
+        out.append(f"mains nets on the board: {', '.join(mains[:5])}")
+    bridges = sorted({t.pin.ref for t in sources if t and t.pin
+                      and classify(netlist.component(t.pin.ref) or Component("", "")) is Kind.BRIDGE})
+    if bridges:
+        out.append(f"LEDs fed by rectifier {', '.join(bridges)} (an AC input, possibly mains)")
+    high = sorted({cid for cid, s in supplies
+                   if s and max(abs(s.volts.maximum), abs(s.volts.minimum)) > HIGH_VOLTAGE})
+    if high:
+        out.append(f"LED circuits above {HIGH_VOLTAGE:g} V DC: {', '.join(high)}")
+    for n in netlist.nets:
+        r = rail_params(n.name, config)
+        if r and not r.ground and max(abs(r.maximum), abs(r.minimum)) > HIGH_VOLTAGE:
+            out.append(f"net {n.name} at {r.nominal:g} V")
+    return tuple(dict.fromkeys(out))
