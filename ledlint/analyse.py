@@ -323,12 +323,12 @@ class _Analyser:
         [(cor, _)] = yield [(ec, False)]
         amb = self.ctx.ambient.maximum
         resistors = []
-        for ref, r in setc.sense:
+        for sense_ref, ohms in setc.sense:
             # The sense voltage is what the loop holds, so P = V²/R: most at the highest V and least R.
             v = setc.sense_voltage.maximum
-            power = v * v / r.minimum if v > 0 and r.minimum > 0 else setc.current.maximum ** 2 * r.maximum
-            resistors.append(ResistorResult(ref, resistor_params(self.ctx.comp(ref), self.ctx.config), "sense",
-                                            setc.current.maximum, power, amb))
+            power = v * v / ohms.minimum if v > 0 and ohms.minimum > 0 else setc.current.maximum ** 2 * ohms.maximum
+            resistors.append(ResistorResult(sense_ref, resistor_params(self.ctx.comp(sense_ref), self.ctx.config),
+                                            "sense", setc.current.maximum, power, amb))
         resistors += _balancing(cor.solution, res, amb)
         k = len(c.branches)
         sharing = _sharing(ec, cor, flat, _seed(c), setc.current.nominal / k) if k >= 2 else None
@@ -363,8 +363,8 @@ class _Analyser:
         if top is None:
             return None
         basis: list[str] = []
-        got = end_voltage(self.ctx.graph, self.ctx.config, top, True, missing, basis)
-        return (Supply(got[0], tuple(basis)), got[1]) if got else None
+        end = end_voltage(self.ctx.graph, self.ctx.config, top, True, missing, basis)
+        return (Supply(end[0], tuple(basis)), end[1]) if end else None
 
     def _spec_or_stand_in(self, p: LedParams) -> LedSpec:
         if p.complete:

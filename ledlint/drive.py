@@ -42,7 +42,7 @@ class SetCurrent:
     limits: tuple[tuple[str, float], ...] = ()  # vin_min, vin_max, vout_max, current_max as given
 
 
-def _resistance(graph: NetGraph, config: Config, refs: tuple[str, ...]) -> tuple[Range, list[Missing]] | None:
+def _resistance(graph: NetGraph, config: Config, refs: tuple[str, ...]) -> tuple[Range, list[Missing]]:
     """Series sum of resistors with their tolerances."""
     total = Range.fixed(0.0)
     missing = []
@@ -54,8 +54,7 @@ def _resistance(graph: NetGraph, config: Config, refs: tuple[str, ...]) -> tuple
         if isinstance(p.resistance, Missing):
             missing.append(p.resistance)
             continue
-        r = Range.tolerance(p.resistance.value, p.tolerance.value)
-        total = Range(total.nominal + r.nominal, total.minimum + r.minimum, total.maximum + r.maximum)
+        total = total + Range.tolerance(p.resistance.value, p.tolerance.value)
     return total, missing
 
 

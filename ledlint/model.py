@@ -5,7 +5,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from enum import Enum
 from ledlint.frozen import FrozenMap
-from typing import Mapping
+from typing import Any, Mapping
 
 
 class PinType(Enum):
@@ -43,7 +43,7 @@ _PIN_TYPE_SPELLINGS = {t.value: t for t in PinType} | {
 
 
 
-def _empty() -> Mapping[str, str]:
+def _empty() -> Mapping[str, Any]:
     return FrozenMap({})
 
 

@@ -60,6 +60,12 @@ class Missing:
     fix: str
 
 
+def known(p: Param | Missing) -> float:
+    """The value of a parameter the caller has checked is there (LedParams.complete, say)."""
+    assert isinstance(p, Param), p.reason
+    return p.value
+
+
 @dataclass(frozen=True)
 class _Text:
     text: str
@@ -231,7 +237,7 @@ def led_params(component: Component, config: Config, die: str = "") -> LedParams
             break
     bad: list[Missing] = []
     parsed_vf = parse_vf(vf_field.text) if vf_field else None
-    if parsed_vf and not (plausible("Vf", parsed_vf[0].value) and
+    if vf_field and parsed_vf and not (plausible("Vf", parsed_vf[0].value) and
                           (parsed_vf[1] is None or plausible("If", parsed_vf[1].value))):
         bad.append(Missing("Vf", f"{vf_field.detail} is outside what an LED can be", "check Vf, e.g. Vf = 2.0V@20mA"))
         parsed_vf = None
@@ -254,7 +260,7 @@ def led_params(component: Component, config: Config, die: str = "") -> LedParams
             return p
         if isinstance(vf, Param) and (vf.origin is not Origin.DEFAULT or table_value is None):
             return Param(vf.value * (1 + sign * SPREAD), Origin.DEFAULT, f"typical {'+' if sign > 0 else '−'}10 %")
-        if isinstance(vf, Param) and table_value is not None:
+        if isinstance(vf, Param) and table_value is not None and tech is not None:
             return Param(table_value, Origin.DEFAULT, f"maximum of a {tech.name} LED, built-in table")
         return Missing(key, vf.reason if isinstance(vf, Missing) else key, f"add a field {key} to {component.ref}")
 

@@ -152,7 +152,7 @@ def classify(component: Component) -> Kind:
     """The component's kind (see Kind)."""
     text = _text(component)
     lower = text.lower()
-    prefix = re.match(r"[A-Za-z]*", component.ref).group(0).upper()
+    prefix = re.sub(r"[^A-Za-z].*", "", component.ref).upper()  # the letters before the number
     if is_addressable(component):
         return Kind.LED_ADDRESSABLE
     if len(component.pins) == 2 and REGULATOR_WORDS.search(text):

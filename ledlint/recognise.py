@@ -351,7 +351,7 @@ class _Recogniser:
                 self.emit(CircuitKind.NOT_FITTED, ids, reason=f"{comp.ref} is marked do-not-populate")
                 continue
             for d, i in zip(dies, ids):
-                open_pins = [n for n in (d.anode, d.cathode) if (comp.pin(n) is None or comp.pin(n).net is None)]
+                open_pins = [n for n in (d.anode, d.cathode) if getattr(comp.pin(n), "net", None) is None]
                 if open_pins:
                     self.unrecognised([i], f"pin {', '.join(open_pins)} of {i} is on no net",
                                       never_lights=True)
@@ -384,8 +384,9 @@ class _Recogniser:
         else:
             elems = common.elements if common.top == node else tuple(e.flipped() for e in reversed(common.elements))
             far_net = elems[-1].net_b
-        branches = tuple(Branch(s.elements, self.topo.terminal(s.bottom if at_top else s.top)) for s in led_segs)
-        fars = {b.far.net for b in branches if b.far}
+        ends = tuple(self.topo.terminal(s.bottom if at_top else s.top) for s in led_segs)
+        branches = tuple(Branch(s.elements, t) for s, t in zip(led_segs, ends))
+        fars = {t.net for t in ends}
         common_term = self.topo.terminal(far_net)
         if not at_top:
             found = self.sink_in(elems, far_net)
@@ -400,8 +401,8 @@ class _Recogniser:
                           source=src, ret=term, node=node, sink=sink)
                 return
         strange = (TerminalKind.NODE, TerminalKind.OTHER, TerminalKind.CONNECTOR, TerminalKind.OPEN)
-        if common_term.kind in strange or any(b.far.kind in strange for b in branches):
-            odd = common_term if common_term.kind in strange else next(b.far for b in branches if b.far.kind in strange)
+        if common_term.kind in strange or any(t.kind in strange for t in ends):
+            odd = common_term if common_term.kind in strange else next(t for t in ends if t.kind in strange)
             self.unrecognised(ids, f"strings sharing {node} continue to {odd.net} ({odd.detail or odd.kind.value}): "
                                    "not a supply, ground or driver pin the tool follows", node=node,
                               never_lights=odd.kind is TerminalKind.OPEN)
@@ -413,7 +414,7 @@ class _Recogniser:
         source, ret = (common_term, None) if at_top else (None, common_term)
         kw: dict[str, object] = {"node": node, "top": elems if at_top else (), "bottom": () if at_top else elems}
         if len(fars) == 1:
-            far = branches[0].far
+            far = ends[0]
             source, ret = (common_term, far) if at_top else (far, common_term)
             plain = tuple(Branch(b.elements) for b in branches)
             if len(branches) == 1:
@@ -421,11 +422,11 @@ class _Recogniser:
             else:
                 self.emit(CircuitKind.BANK, ids, branches=plain, source=source, ret=ret, **kw)
             return
-        pins = all(b.far.kind is TerminalKind.PIN for b in branches)
+        pins = all(t.kind is TerminalKind.PIN for t in ends)
         if pins and common_term.kind is TerminalKind.PIN:
             self.emit(CircuitKind.MULTIPLEXED, ids, branches=branches, source=source, ret=ret,
                       reason=f"both ends on driver pins ({common_term.detail} and the pins of "
-                             f"{', '.join(sorted({b.far.pin.ref for b in branches if b.far.pin}))}); which LEDs "
+                             f"{', '.join(sorted({t.pin.ref for t in ends if t.pin}))}); which LEDs "
                              "are lit together depends on firmware", **kw)
         else:
             self.emit(CircuitKind.BANK, ids, branches=branches, source=source, ret=ret,

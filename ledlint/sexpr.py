@@ -36,6 +36,7 @@ class SList(list):
     """A parsed list: its items (atoms as str, sub-lists as SList) and where it opened."""
 
     __slots__ = ("offset",)
+    offset: int  # character offset of its '(' in the text
 
     @property
     def head(self) -> str:
@@ -84,7 +85,7 @@ def parse(text: str, path: str = "") -> SList:
     current = top
     stack: list[SList] = []
     for m in _TOKEN.finditer(text):
-        kind = m.lastindex
+        kind = m.lastindex or 0
         if not stack and (top or kind != 1):
             offset = m.start(kind)
             if kind == 2:
@@ -127,5 +128,5 @@ def _describe_non_sexpr(text: str) -> str:
         return "this looks like XML; export the KiCad netlist in its s-expression format (.net)"
     if text.startswith("#") and "netlist" in text[:200].lower():
         return "this is a pre-2013 legacy KiCad netlist; re-export it from a current KiCad as .net"
-    token = re.match(r"[^ \t\r\n\f\v()]*", text).group(0) or text[:1]
+    token = re.match(r"[^ \t\r\n\f\v()]*", text).group(0) or text[:1]  # type: ignore[union-attr]  # * always matches
     return f"expected '(' to open a KiCad netlist, found {token[:20]!r}"

@@ -68,17 +68,18 @@ def ballast_fix(analysis: Analysis, current_limit: float, *, design_factor: floa
     if not analysis.engine or analysis.set_current is not None or current_limit <= 0:
         return None
     circuits, per_string = _strings(analysis)
-    fixes = [_size(ec, current_limit) for ec in circuits]
-    if any(f is None for f in fixes):
+    sized = [_size(ec, current_limit) for ec in circuits]
+    fixes = [f for f in sized if f is not None]
+    if len(fixes) < len(sized):
         return None
-    best = max(fixes, key=lambda f: f.resistance)  # type: ignore[union-attr]
-    low = min(f.low_ratio for f in fixes)  # type: ignore[union-attr]
+    best = max(fixes, key=lambda f: f.resistance)
+    low = min(f.low_ratio for f in fixes)
     if low < dead_ratio:
         return NoBallast(f"no resistor value fixes it: with the supply at its least and every LED at its "
                          f"highest Vf only {low:.0%} of the nominal current would flow; use fewer LEDs per "
                          "string, a higher supply, or a constant-current driver")
     # P ≈ V²/R falls as R rises, so each string's own worst dissipation bounds it at the larger R.
-    power = max(f.power_max for f in fixes)  # type: ignore[union-attr]
+    power = max(f.power_max for f in fixes)
     rating = _required_rating(power, design_factor, circuits[0].ambient.maximum, upper_category_c)
     chip = chip_for(rating)
     return replace(best, per_string=per_string, power_max=power, rating=rating, chip=chip[0] if chip else "")

@@ -90,7 +90,7 @@ def end_voltage(graph: NetGraph, config: Config, t: Terminal | None, high: bool,
         if sup is None:
             pins = sorted((p for p in _supply_pins(comp) if not _is_ground(p.net, config)),
                           key=lambda p: (_supply_rank(p), p.net))
-            nets = list(dict.fromkeys(p.net for p in pins))  # the one setting the output level first
+            nets = list(dict.fromkeys(p.net for p in pins if p.net))  # the one setting the output level first
             where = f"its supply pins are on {', '.join(nets)}" if nets else "no supply pin of it is connected"
             missing.append(Missing("supply voltage", f"{comp.ref} drives LEDs, and {where}, with no voltage "
                                    "known", _rail_fix(nets[0] if nets else "NET", "nominal = 3.3")))

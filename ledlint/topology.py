@@ -117,6 +117,11 @@ def _two_pins(comp: Component) -> tuple[Pin, Pin] | None:
     return (connected[0], connected[1]) if len(comp.pins) == 2 and len(connected) == 2 else None
 
 
+def _through(ref: str, kind: ElementKind, a: Pin, b: Pin, part: Kind) -> Element:
+    assert a.net is not None and b.net is not None  # _two_pins keeps parts with both pins connected
+    return Element(ref, kind, a.number, b.number, a.net, b.net, part=part)
+
+
 def elements_of(comp: Component, config: Config) -> tuple[Element, ...] | None:
     """The series elements a component contributes; None when it is not a series part."""
     kind = classify(comp)
@@ -145,16 +150,15 @@ def elements_of(comp: Component, config: Config) -> tuple[Element, ...] | None:
         named = {x.name.upper(): x for x in (p, q)}
         first = named.get("A") or named.get("+") or named.get("IN") or p
         second = q if first is p else p
-        return (Element(comp.ref, ElementKind.REGULATOR, first.number, second.number, first.net, second.net,
-                        part=Kind.REGULATOR),)
+        return (_through(comp.ref, ElementKind.REGULATOR, first, second, Kind.REGULATOR),)
     if kind is Kind.RESISTOR:
-        return (Element(comp.ref, ElementKind.RESISTOR, p.number, q.number, p.net, q.net, part=kind),)
+        return (_through(comp.ref, ElementKind.RESISTOR, p, q, kind),)
     if kind in (Kind.DIODE,):
         a, k = _pin_by_name(comp, "A"), _pin_by_name(comp, "K")
         if a and k:
-            return (Element(comp.ref, ElementKind.DIODE, a.number, k.number, a.net, k.net, part=kind),)
+            return (_through(comp.ref, ElementKind.DIODE, a, k, kind),)
     if kind is Kind.INDUCTOR or re.match(r"^(F|FB|JP)\d", comp.ref, re.I):
-        return (Element(comp.ref, ElementKind.WIRE, p.number, q.number, p.net, q.net, part=kind),)
+        return (_through(comp.ref, ElementKind.WIRE, p, q, kind),)
     return None
 
 

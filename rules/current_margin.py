@@ -64,12 +64,11 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
             # A built-in rating is a class default (20-30 mA for small indicators): only a
             # current above the whole class's range keeps full severity.
             assumed = if_max.assumed and not (led.params.if_max_upper and worst > led.params.if_max_upper)
-            over.append((by_evidence(severity, assumed), worst / if_max.value, led))
+            over.append((by_evidence(severity, assumed), worst / if_max.value, led, if_max))
         if not over:
             continue
-        severity = max((s for s, _, _ in over), key=lambda s: s.rank)
-        _, _, led = max(over, key=lambda o: (o[0].rank, o[1]))
-        if_max = led.params.if_max
+        severity = max((o[0] for o in over), key=lambda s: s.rank)
+        _, _, led, if_max = max(over, key=lambda o: (o[0].rank, o[1]))
         worst = led.current.maximum
         limit = if_max.value if worst > if_max.value else margin * if_max.value
         values = (Value("worst", worst, "A", limit, ">"), Value("nominal", led.current.nominal, "A"),

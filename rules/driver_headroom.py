@@ -36,6 +36,7 @@ from __future__ import annotations
 from typing import Iterator
 
 from ledlint.findings import Finding, Severity, Value
+from ledlint.params import known
 from ledlint.recognise import CircuitKind
 from ledlint.registry import Rule, RuleContext
 from ledlint.rules._support import circuit_assumptions, ids, led_assumptions
@@ -73,12 +74,12 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                                   values=(Value("vin", v.maximum, "V", limits["vin_max"], ">"),
                                           Value("limit", limits["vin_max"], "V")), out=out,
                                   assumed=tuple(circuit_assumptions(a)), hint="a lower input, or a driver for it")
-        strings = [sum(r.params.vf_max.value for r in a.leds if r.id in {e.id for e in b.leds})
+        strings = [sum(known(r.params.vf_max) for r in a.leds if r.id in {e.id for e in b.leds})
                    for b in c.branches if all(r.params.complete for r in a.leds)]
         assumed = tuple(x for r in a.leds for x in led_assumptions(r))[:6] + tuple(circuit_assumptions(a))
         if setc.kind == "boost" and strings:
             high = max(strings)
-            low = min(sum(r.params.vf_min.value for r in a.leds if r.id in {e.id for e in b.leds})
+            low = min(sum(known(r.params.vf_min) for r in a.leds if r.id in {e.id for e in b.leds})
                       for b in c.branches)
             if "vout_max" in limits and high > limits["vout_max"]:
                 yield ctx.finding(a, Severity.ERROR, "{out} (boost) cannot reach the string voltage: {leds} need up "

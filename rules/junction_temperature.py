@@ -56,7 +56,7 @@ def _too_hot(ctx: RuleContext, a: Analysis) -> Iterator[Finding]:
     if not hot:
         return
     led = max(hot, key=lambda r: r.tj_max - r.params.tj_max.value)
-    assumed = led.params.tj_max.assumed or led.params.rth.assumed
+    assumed = led.params.tj_max.assumed or bool(led.params.rth and led.params.rth.assumed)
     yield ctx.finding(a, by_evidence(Severity.WARNING, assumed),
                       "{led}'s junction reaches {tj} at the worst corner, above its Tj_max of {tj_max}",
                       values=(Value("tj", led.tj_max, "°C", led.params.tj_max.value, ">"),

@@ -39,7 +39,7 @@ from __future__ import annotations
 from typing import Iterator
 
 from ledlint.findings import Finding, Severity, Value, quantity
-from ledlint.params import Param
+from ledlint.params import Param, known
 from ledlint.recognise import CircuitKind
 from ledlint.registry import Rule, RuleContext
 from ledlint.analyse import Analysis
@@ -105,8 +105,10 @@ def _hint(ctx: RuleContext, a: Analysis) -> str:
     hint = ballast_hint(ctx, a, "give each LED its own resistor")
     by_id = {r.id: r for r in a.leds}
     strings = [[by_id[e.id] for e in b.leds] for b in c.branches]
-    string_max = max(sum(r.params.vf_max.value for r in st) for st in strings)
-    string_typ = max(sum(r.params.vf.value for r in st) for st in strings)
+    if a.supply is None or a.sharing is None:
+        return hint
+    string_max = max(sum(known(r.params.vf_max) for r in st) for st in strings)
+    string_typ = max(sum(known(r.params.vf) for r in st) for st in strings)
     v = a.supply.volts
     series_v = len(strings) * string_max
     if v.minimum - series_v >= 1.0:
