@@ -72,7 +72,6 @@ class Sharing:
 
     samples: int
     spread_p99: float  # (max − min)/mean of the per-sample split, 99th percentile
-    spread_max: float
     worst_led: str
     worst_current: float  # A, the most any one LED reaches in any sample or corner
     equal_share: float  # A, total / strings at nominal
@@ -121,7 +120,7 @@ class _Context:
         assert c is not None
         return c
 
-    def led_spec(self, p: LedParams, tj_hint: float | None = None) -> LedSpec:
+    def led_spec(self, p: LedParams) -> LedSpec:
         vf = Range(p.vf.value, p.vf_min.value, p.vf_max.value)  # type: ignore[union-attr]
         return LedSpec(vf=vf, i_test=p.i_test.value, n=p.n, r_s=p.r_s, tc=p.tc.value,
                        rth=p.rth.value if p.rth else None)
@@ -422,8 +421,7 @@ def _sharing(ec: ECircuit, cor: Corners, flat: list[LedParams], seed: int, equal
     mc = monte_carlo(ec, samples=MC_SAMPLES, seed=seed)
     peak = np.maximum(mc.current.maximum, cor.led_current_max)
     worst = int(np.argmax(peak))
-    return Sharing(MC_SAMPLES, float(mc.spread_summary.p99), float(mc.spread_summary.maximum), flat[worst].id,
-                   float(peak[worst]), equal_share)
+    return Sharing(MC_SAMPLES, float(mc.spread_summary.p99), flat[worst].id, float(peak[worst]), equal_share)
 
 
 def _vf_max_at(p: LedParams, current: float, tj: float) -> float:

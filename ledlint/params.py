@@ -307,7 +307,6 @@ class RailParams:
     origin: Origin
     detail: str
     ground: bool = False
-    ac: bool = False
 
 
 def rail_params(net: str, config: Config) -> RailParams | None:
@@ -322,7 +321,7 @@ def rail_params(net: str, config: Config) -> RailParams | None:
     if rail is None:
         return None
     return RailParams(net, rail.nominal, rail.minimum, rail.maximum, Origin.NET_NAME, rail.source,
-                      ground=rail.kind is RailKind.GROUND, ac=rail.kind is RailKind.AC)
+                      ground=rail.kind is RailKind.GROUND)
 
 
 # A controller pin's continuous current, when its datasheet is not given (common practice;

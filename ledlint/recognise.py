@@ -130,10 +130,6 @@ def _natural(text: str) -> tuple:
     return tuple(int(p) if p.isdigit() else p for p in _DIGITS.split(text))
 
 
-def _first(ids: list[str]) -> str:
-    return min(ids, key=_natural)
-
-
 class _Recogniser:
     def __init__(self, graph: NetGraph, config: Config) -> None:
         self.graph = graph

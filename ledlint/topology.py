@@ -197,7 +197,6 @@ class Topology:
                 if pin.net is not None and pin.number not in used and not pin.no_connect:
                     self.other_pins.setdefault(pin.net, []).append(pin)
         self.segments = self._chain()
-        self.segment_of: dict[str, Segment] = {e.id: s for s in self.segments for e in s.elements}
 
     def internal(self, net: str) -> bool:
         ends = self.ends.get(net, ())

@@ -151,10 +151,6 @@ class Corners:
     def ballast_power_max(self) -> float:
         return float(self.solution.ballast_power.max())
 
-    @property
-    def branch_resistor_power_max(self) -> Array:
-        return self.solution.branch_resistor_power.max(axis=0)
-
 
 def _named(rows: list[_Row], cases: Cases, solution: Solution) -> Corners:
     names = [r.name for r in rows]
