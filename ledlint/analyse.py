@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import zlib
 from dataclasses import dataclass, field, replace
+from enum import Enum
 from ledlint.frozen import FrozenMap
 from typing import Mapping
 
@@ -48,11 +49,17 @@ class LedResult:
     low: float = 0.0  # A at the low corner (least supply, most resistance, every LED at Vf max, cold)
 
 
+class ResistorRole(Enum):
+    BALLAST = "ballast"  # sets a voltage-driven string's current
+    BALANCING = "balancing"  # evens the split between parallel strings
+    SENSE = "sense"  # a current sink's or driver's feedback resistor
+
+
 @dataclass(frozen=True)
 class ResistorResult:
     ref: str
     params: ResistorParams
-    role: str  # "ballast", "balancing" or "sense"
+    role: ResistorRole
     current_max: float
     power_max: float  # W at its worst corner
     ambient_max: float
@@ -98,6 +105,11 @@ class Analysis:
     engine: tuple[ECircuit, ...] = ()  # the engine's circuits, one per string lit alone or one in all
     gaps: tuple[Missing, ...] = ()  # what one check lacks while the rest ran (an LED's unknown If_max)
     ambient_basis: str = ""  # the ambient range the corners span, and where it comes from
+
+    @property
+    def reversed(self) -> bool:
+        """Solved, and the supply is never positive across it: fitted or powered backwards."""
+        return self.solved and self.supply is not None and self.supply.volts.maximum <= 0
 
 
 @dataclass(frozen=True)
@@ -248,7 +260,7 @@ class _Analyser:
         for rp in common_res:  # in the corners every common resistor sits at the same tolerance end
             share = rp.resistance.value / rc.nominal if rc.nominal > 0 else 0.0  # type: ignore[union-attr]
             power = float((sol.common_current ** 2 * cor.cases.r_series * share).max())
-            resistors.append(ResistorResult(rp.ref, rp, "ballast", float(i_common.max()), power, amb))
+            resistors.append(ResistorResult(rp.ref, rp, ResistorRole.BALLAST, float(i_common.max()), power, amb))
         resistors += _balancing(sol, branch_res, amb)
         pins = []
         for t, sourcing in ((src, True), (ret, False)):
@@ -327,7 +339,7 @@ class _Analyser:
             v = setc.sense_voltage.maximum
             power = v * v / ohms.minimum if v > 0 and ohms.minimum > 0 else setc.current.maximum ** 2 * ohms.maximum
             resistors.append(ResistorResult(sense_ref, resistor_params(self.ctx.comp(sense_ref), self.ctx.config),
-                                            "sense", setc.current.maximum, power, amb))
+                                            ResistorRole.SENSE, setc.current.maximum, power, amb))
         resistors += _balancing(cor.solution, res, amb)
         k = len(c.branches)
         sharing = _sharing(ec, cor, flat, _seed(c), setc.current.nominal / k) if k >= 2 else None
@@ -411,7 +423,7 @@ def _balancing(sol: Solution, branch_res: list[list[ResistorParams]], ambient: f
         total = sum(x.resistance.value for x in rs if isinstance(x.resistance, Param))
         for rp in rs:
             if isinstance(rp.resistance, Param) and total > 0:
-                out.append(ResistorResult(rp.ref, rp, "balancing", float(sol.branch_current[:, k].max()),
+                out.append(ResistorResult(rp.ref, rp, ResistorRole.BALANCING, float(sol.branch_current[:, k].max()),
                                           float(sol.branch_resistor_power[:, k].max()) * rp.resistance.value / total,
                                           ambient))
     return out

@@ -38,7 +38,7 @@ from __future__ import annotations
 from typing import Iterator
 
 from ledlint.ratings import chip_for
-from ledlint.analyse import Analysis
+from ledlint.analyse import Analysis, ResistorRole
 from ledlint.findings import Finding, Severity, Value, quantity
 from ledlint.params import Param
 from ledlint.recognise import CircuitKind
@@ -89,7 +89,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
         if isinstance(if_max, Param):
             values.append(Value("if_max", if_max.value, "A"))
             template += ", above its If_max of {if_max}" if over else " (If_max {if_max})"
-        balancing = any(r.role == "balancing" for r in a.resistors)
+        balancing = any(r.role is ResistorRole.BALANCING for r in a.resistors)
         if not balancing:
             template += "; no balancing resistors"
         if stand_in:

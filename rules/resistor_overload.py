@@ -36,11 +36,15 @@ from __future__ import annotations
 
 from typing import Iterator
 
+from ledlint.analyse import ResistorRole
 from ledlint.findings import Finding, Severity, Value, quantity
 from ledlint.params import Param
 from ledlint.ratings import chip_for, derated_power
 from ledlint.registry import Option, Rule, RuleContext
 from ledlint.rules._support import circuit_assumptions, resistor_assumptions
+
+_ROLE = {ResistorRole.BALLAST: "ballast", ResistorRole.BALANCING: "balancing resistor",
+         ResistorRole.SENSE: "sense resistor"}
 
 
 def check(ctx: RuleContext) -> Iterator[Finding]:
@@ -49,7 +53,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
         if not a.solved:
             continue
         for r in a.resistors:
-            role = {"ballast": "ballast", "balancing": "balancing resistor", "sense": "sense resistor"}[r.role]
+            role = _ROLE[r.role]
             rating = r.params.power
             comp = ctx.board.parts.get(r.ref)
             footprint = comp.footprint if comp else ""

@@ -49,7 +49,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
         if (not a.solved or a.unlimited or a.set_current is not None or a.headroom_v is None or a.min_ratio is None
                 or a.supply is None):
             continue
-        if a.supply.volts.maximum <= 0:
+        if a.reversed:
             continue  # reversed: reverse-bias reports it, headroom means nothing here
         if a.headroom_v <= 0 or a.min_ratio < dead:
             severity = Severity.ERROR

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from ledlint.analyse import Analysis
+from ledlint.analyse import Analysis, ResistorRole
 from ledlint.recognise import CircuitKind
 from ledlint.run import RunResult
 from ledlint.topology import ElementKind
@@ -45,7 +45,7 @@ class CircuitRow:
 def row(path: str, a: Analysis) -> CircuitRow:
     c = a.circuit
     ballast = tuple(dict.fromkeys([e.ref for e in c.elements if e.kind is ElementKind.RESISTOR]
-                                  + [r.ref for r in a.resistors if r.role == "sense"]))
+                                  + [r.ref for r in a.resistors if r.role is ResistorRole.SENSE]))
     current = None
     if a.solved and a.leds and not c.blocked:
         nominal = a.nominal_current if a.nominal_current is not None else a.leds[0].current.nominal
@@ -54,7 +54,7 @@ def row(path: str, a: Analysis) -> CircuitRow:
     note = _NOT_ANALYSED.get(c.kind, c.reason if c.kind is CircuitKind.UNRECOGNISED else "")
     if c.blocked:
         note = f"never conducts: {c.blocked}"
-    elif a.solved and a.supply is not None and a.supply.volts.maximum <= 0:
+    elif a.reversed:
         current, power, note = None, None, "reversed: never conducts"
     elif not a.solved and a.missing:
         note = "not computed: " + "; ".join(dict.fromkeys(m.name for m in a.missing)) + " unknown"
