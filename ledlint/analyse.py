@@ -27,7 +27,7 @@ from ledlint.model import Component, Netlist, Pin
 from ledlint.params import (LedParams, Missing, Param, ResistorParams, led_params, pin_limit,
                             rail_params, resistor_params)
 from ledlint.parts import Kind
-from ledlint.recognise import CircuitKind, LedCircuit, recognise
+from ledlint.recognise import CircuitKind, LedCircuit, ReferenceKind, recognise
 from ledlint.supplies import Supply, cautions, circuit_supply, end_voltage, ic_supply
 from ledlint.topology import Element, ElementKind, Terminal, TerminalKind
 
@@ -299,7 +299,7 @@ class _Analyser:
         rail = None
         if c.sink is not None:
             ref = c.sink.reference
-            if ref.kind == "pin" and ref.pin is not None:
+            if ref.kind is ReferenceKind.PIN and ref.pin is not None:
                 got = ic_supply(self.ctx.comp(ref.pin.ref), self.ctx.config)
                 rail = got[0] if got else None
             elif ref.rail:

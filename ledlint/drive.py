@@ -13,7 +13,7 @@ from ledlint.config import DRIVER_KINDS, Config
 from ledlint.engine import Range
 from ledlint.graph import NetGraph
 from ledlint.params import Missing, Origin, Param, resistor_params
-from ledlint.recognise import DriverIC, Reference, Sink
+from ledlint.recognise import DriverIC, Reference, ReferenceKind, Sink
 from ledlint.units import parse_current, parse_tolerance, parse_voltage
 
 # Silicon base-emitter voltage at 1-100 mA: 0.65 V nominal, 0.55-0.75 V over parts and current,
@@ -73,7 +73,7 @@ def sink_current(sink: Sink, graph: NetGraph, config: Config, ambient: Range,
     ref = sink.reference
     if sink.transistor.assumption:
         notes.append(f"{sink.transistor.ref}: {sink.transistor.assumption}")
-    if ref.kind == "vbe":
+    if ref.kind is ReferenceKind.VBE:
         v_emitter = vbe
         basis = f"V_BE of {ref.refs[0]} ({vbe.nominal:.2f} V, {vbe.minimum:.2f}-{vbe.maximum:.2f} V) across the emitter resistor"
         notes.append(f"V_BE {VBE.minimum:.2f}-{VBE.maximum:.2f} V, −2 mV/K (silicon, common practice)")
@@ -87,7 +87,7 @@ def sink_current(sink: Sink, graph: NetGraph, config: Config, ambient: Range,
         v_emitter = Range(min(max(nom, lo), hi), lo, hi)
         what = "V_GS" if mos else "V_BE"
         basis = f"{ref.detail} at {v_base.nominal:.2f} V, less {what} {drop.nominal:.2f} V"
-        if ref.kind == "divider":
+        if ref.kind is ReferenceKind.DIVIDER:
             notes.append("the divider's loading by the base current is neglected")
     if missing:
         return None, missing, notes
@@ -104,7 +104,7 @@ def sink_current(sink: Sink, graph: NetGraph, config: Config, ambient: Range,
 
 def _reference_voltage(ref: Reference, graph: NetGraph, config: Config, rail: Range | None, missing: list[Missing],
                        notes: list[str]) -> Range | None:
-    if ref.kind == "zener":
+    if ref.kind is ReferenceKind.ZENER:
         comp = graph.component(ref.refs[0])
         text = (comp.field("Vz") if comp else None) or (comp.value if comp else "")
         q = parse_voltage(text or "")
@@ -114,12 +114,12 @@ def _reference_voltage(ref: Reference, graph: NetGraph, config: Config, rail: Ra
             return None
         notes.append(f"{ref.refs[0]} zener {q.value:g} V ±5 %")
         return Range.tolerance(q.value, ZENER_TOLERANCE)
-    if ref.kind == "diodes":
+    if ref.kind is ReferenceKind.DIODES:
         n = len(ref.refs)
         notes.append(f"{n} diode drop(s) of {VDIODE.minimum:.2f}-{VDIODE.maximum:.2f} V")
         return Range(n * VDIODE.nominal, n * VDIODE.minimum, n * VDIODE.maximum)
-    if ref.kind in ("divider", "pin") and rail is not None:
-        if ref.kind == "pin":
+    if ref.kind in (ReferenceKind.DIVIDER, ReferenceKind.PIN) and rail is not None:
+        if ref.kind is ReferenceKind.PIN:
             notes.append("the base or gate sits at the driving pin's high level (base current neglected)")
             return rail
         top_bottom = _divider(ref, graph, config)

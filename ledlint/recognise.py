@@ -31,11 +31,20 @@ class CircuitKind(Enum):
     UNRECOGNISED = "unrecognised"
 
 
+class ReferenceKind(Enum):
+    VBE = "vbe"  # a second transistor clamps the base at one V_BE across the sense resistor
+    ZENER = "zener"
+    DIODES = "diodes"  # forward-biased diodes in series
+    DIVIDER = "divider"
+    PIN = "pin"  # a controller pin drives the base
+    UNKNOWN = "unknown"
+
+
 @dataclass(frozen=True)
 class Reference:
     """What holds a current-sink transistor's base or gate at a fixed voltage."""
 
-    kind: str  # "vbe" (a sense transistor), "zener", "diodes", "divider", "pin", "unknown"
+    kind: ReferenceKind
     refs: tuple[str, ...] = ()
     rail: str = ""  # the supply net feeding a divider or a zener's resistor
     pin: Pin | None = None  # a controller pin driving the base
@@ -212,7 +221,7 @@ class _Recogniser:
         comp = self.comp(transistor.ref)
         ctrl = comp.pin(transistor.control) if transistor.control else None
         if ctrl is None or ctrl.net is None:
-            return Reference("unknown", detail="its base or gate is not connected")
+            return Reference(ReferenceKind.UNKNOWN, detail="its base or gate is not connected")
         net = ctrl.net
         parts = [c for c in self.graph.parts_on(net) if c.ref != comp.ref and not c.dnp]
         for c in parts:  # a second transistor whose base-emitter senses the emitter resistor
@@ -221,7 +230,7 @@ class _Recogniser:
                 base = c.pin(roles.get("B") or roles.get("G") or "")
                 collector = c.pin(roles.get("C") or roles.get("D") or "")
                 if base and collector and collector.net == net and base.net == transistor.net_b:
-                    return Reference("vbe", (c.ref,), detail=f"{c.ref} clamps the base at one V_BE across "
+                    return Reference(ReferenceKind.VBE, (c.ref,), detail=f"{c.ref} clamps the base at one V_BE across "
                                                              "the emitter resistor")
         zeners = [c for c in parts if classify(c) is Kind.ZENER]
         feeds = [c for c in parts if classify(c) is Kind.RESISTOR]
@@ -231,25 +240,25 @@ class _Recogniser:
             if other and self.topo.terminal(other).kind in (TerminalKind.RAIL, TerminalKind.SUPPLY):
                 rail = other
         if zeners:
-            return Reference("zener", (zeners[0].ref,) + tuple(r.ref for r in feeds), rail,
+            return Reference(ReferenceKind.ZENER, (zeners[0].ref,) + tuple(r.ref for r in feeds), rail,
                              detail=f"zener {zeners[0].ref} holds the base")
         chain = self.diode_chain(net)
         if chain:
-            return Reference("diodes", chain, rail, detail=f"{len(chain)} diode(s) in series hold the base")
+            return Reference(ReferenceKind.DIODES, chain, rail, detail=f"{len(chain)} diode(s) in series hold the base")
         term = self.topo.terminal(net)
         if term.kind is TerminalKind.PIN:
-            return Reference("pin", (term.pin.ref,) if term.pin else (), pin=term.pin, detail=term.detail)
+            return Reference(ReferenceKind.PIN, (term.pin.ref,) if term.pin else (), pin=term.pin, detail=term.detail)
         grounded = [r for r in feeds if self.topo.terminal(self.graph.across(r.ref, next(
             p.number for p in r.pins if p.net == net)) or "").kind is TerminalKind.GROUND]
         if rail and grounded:
-            return Reference("divider", tuple(r.ref for r in feeds), rail, detail="a resistor divider sets the base")
+            return Reference(ReferenceKind.DIVIDER, tuple(r.ref for r in feeds), rail, detail="a resistor divider sets the base")
         for r in feeds:  # through a base resistor from a controller pin
             other = self.graph.across(r.ref, next(p.number for p in r.pins if p.net == net))
             t = self.topo.terminal(other) if other else None
             if t and t.kind is TerminalKind.PIN:
-                return Reference("pin", (r.ref, t.pin.ref if t.pin else ""), pin=t.pin,
+                return Reference(ReferenceKind.PIN, (r.ref, t.pin.ref if t.pin else ""), pin=t.pin,
                                  detail=f"{t.detail} through {r.ref}")
-        return Reference("unknown", tuple(c.ref for c in parts), detail=f"net {net} holds {len(parts)} other part(s)")
+        return Reference(ReferenceKind.UNKNOWN, tuple(c.ref for c in parts), detail=f"net {net} holds {len(parts)} other part(s)")
 
     def diode_chain(self, net: str) -> tuple[str, ...]:
         """Diodes (or LEDs) in series from `net` down to ground, anodes up; () if they do not reach it."""

@@ -132,7 +132,7 @@ def test_sink_reference_kinds(tmp_path: Path, reference: str, refs: tuple[str, .
     c = circuit(run(sink_board(reference), tmp_path), "D1")
     assert c.kind is CircuitKind.SINK and c.sink is not None
     assert c.sink.transistor.ref == "Q1" and [e.ref for e in c.sink.sense] == ["R1"]
-    assert c.sink.reference.kind == ("diodes" if reference == "diodes" else reference)
+    assert c.sink.reference.kind.value == ("diodes" if reference == "diodes" else reference)
     assert c.sink.reference.refs == refs
     assert set(refs) <= set(c.refs)
 

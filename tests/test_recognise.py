@@ -111,7 +111,7 @@ def test_unnamed_sot23_npn_with_emitter_resistor_is_a_sink() -> None:
     b.add("D9", "D_Zener", "3V3", "Diode_SMD:D_SOD-123", {"1": "/B", "2": "GND"})
     c = only(b)
     assert c.kind is CircuitKind.SINK and c.sink.transistor.ref == "Q1"
-    assert [e.ref for e in c.sink.sense] == ["R1"] and c.sink.reference.kind == "zener"
+    assert [e.ref for e in c.sink.sense] == ["R1"] and c.sink.reference.kind.value == "zener"
     assert "SOT-23" in c.sink.transistor.assumption
 
 
