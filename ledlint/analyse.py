@@ -9,7 +9,7 @@ headroom, reverse voltage, electro-thermal loop gain. Knows nothing of rules.
 from __future__ import annotations
 
 import zlib
-from dataclasses import dataclass, field, replace
+from dataclasses import KW_ONLY, dataclass, field, replace
 from enum import Enum
 from ledlint.frozen import FrozenMap
 from typing import Mapping
@@ -87,6 +87,7 @@ class Sharing:
 @dataclass(frozen=True)
 class Analysis:
     circuit: LedCircuit
+    _: KW_ONLY  # seventeen fields: by name only
     solved: bool = False
     missing: tuple[Missing, ...] = ()
     assumptions: tuple[str, ...] = ()
@@ -237,10 +238,13 @@ class _Analyser:
         resistors = tuple(_worst_per_ref([r for s in solved for r in s.resistors]))
         pins = tuple(p for s in solved for p in s.pins)
         gains = [s.loop_gain for s in solved if s.loop_gain is not None]
-        return Analysis(c, True, (), tuple(dict.fromkeys(assumptions)), first_supply, None, results, resistors,
-                        pins, max(s.nominal for s in solved), min(s.headroom for s in solved),
-                        min(s.min_ratio for s in solved), solved[0].sharing if len(solved) == 1 else None,
-                        max(gains) if gains else None, unlimited, ambiguity, engines, _gaps(results))
+        return Analysis(c, solved=True, assumptions=tuple(dict.fromkeys(assumptions)), supply=first_supply,
+                        leds=results, resistors=resistors, pins=pins,
+                        nominal_current=max(s.nominal for s in solved), headroom_v=min(s.headroom for s in solved),
+                        min_ratio=min(s.min_ratio for s in solved),
+                        sharing=solved[0].sharing if len(solved) == 1 else None,
+                        loop_gain=max(gains) if gains else None, unlimited=unlimited, ambiguity=ambiguity,
+                        engine=engines, gaps=_gaps(results))
 
     def resistor(self, e: Element) -> ResistorParams:
         return resistor_params(self.ctx.comp(e.ref), self.ctx.config)
@@ -291,8 +295,8 @@ class _Analyser:
         worst = max(abs(sup[0].volts.maximum), abs(sup[0].volts.minimum))
         results = tuple(LedResult(p.id, p, Range.fixed(0.0), 0.0, self.ctx.ambient.maximum,
                                   worst if (p.id in opposed) == (sup[0].volts.maximum >= 0) else 0.0) for p in leds)
-        return Analysis(c, True, (), ("the whole supply may fall on one reversed LED (leakage decides)",), sup[0],
-                        leds=results)
+        return Analysis(c, solved=True, assumptions=("the whole supply may fall on one reversed LED (leakage "
+                                                     "decides)",), supply=sup[0], leds=results)
 
     # -------------------------------------------------------------- current drive
     def current_driven(self, c: LedCircuit) -> Job[Analysis]:
@@ -351,9 +355,10 @@ class _Analyser:
                         for ps in branch_leds)
             headroom = sup[0].volts.minimum - worst - setc.sense_voltage.maximum - setc.dropout.maximum
         results = tuple(_led_results(cor, flat))
-        return Analysis(c, True, tuple(missing), tuple(dict.fromkeys(notes)), sup[0] if sup else None, setc,
-                        results, tuple(resistors), (), setc.current.nominal / k, headroom,
-                        None, sharing, None, False, ambiguity, (ec,), _gaps(results))
+        return Analysis(c, solved=True, missing=tuple(missing), assumptions=tuple(dict.fromkeys(notes)),
+                        supply=sup[0] if sup else None, set_current=setc, leds=results, resistors=tuple(resistors),
+                        nominal_current=setc.current.nominal / k, headroom_v=headroom, sharing=sharing,
+                        ambiguity=ambiguity, engine=(ec,), gaps=_gaps(results))
 
     def driver_supply(self, c: LedCircuit, setc: SetCurrent | None, missing: list[Missing]) -> tuple[Supply, Range] | None:
         """What a current output works from: the LEDs' own supply for a sink or linear driver (the
