@@ -18,6 +18,7 @@ from ledlint.engine.corners import ballast_scan
 from ledlint.eseries import ESeries, nearest_above, series_values
 from ledlint.ratings import chip_for, derated_power
 from ledlint.recognise import CircuitKind
+from ledlint.units import quantity
 
 _SEED = 1  # a fixed Monte Carlo seed: the same hint every run
 
@@ -76,7 +77,7 @@ def ballast_fix(analysis: Analysis, current_limit: float, *, design_factor: floa
     low = min(f.low_ratio for f in fixes)
     if low < dead_ratio:
         return NoBallast(f"no resistor value fixes it: with the supply at its least and every LED at its "
-                         f"highest Vf only {low:.0%} of the nominal current would flow; use fewer LEDs per "
+                         f"highest Vf only {quantity(low, '%')} of the nominal current would flow; use fewer LEDs per "
                          "string, a higher supply, or a constant-current driver")
     # P ≈ V²/R falls as R rises, so each string's own worst dissipation bounds it at the larger R.
     power = max(f.power_max for f in fixes)

@@ -94,5 +94,5 @@ def ballast_hint(ctx: RuleContext, a: Analysis, fallback: str) -> str:
             f"{quantity(fix.power_max, 'W')} in {'each' if fix.per_string else 'it'}, so at least "
             f"{quantity(fix.rating, 'W')} rated ({size})")
     if fix.low_ratio < ctx.option_of("supply-headroom", "min_ratio", 0.5):
-        text += f"; at the low corner the current still falls to {fix.low_ratio:.0%} of nominal"
+        text += f"; at the low corner the current still falls to {quantity(fix.low_ratio, '%')} of nominal"
     return text

@@ -106,12 +106,12 @@ def _hint(ctx: RuleContext, a: Analysis, limit: float) -> str:
         return text
     if fix.drop > _MAX_BALANCING_DROP:
         return text + (f" (a balancing resistor would have to drop {quantity(fix.drop, 'V')} per string to hold "
-                       f"the split within {limit:.0%})")
+                       f"the split within {quantity(limit, '%')})")
     factor = ctx.option_of("resistor-overload", "design_factor", 0.5)
     chip = chip_for(fix.power_max / factor)
     size = f", rated at least {quantity(fix.power_max / factor, 'W')} ({chip[0]} or larger)" if chip else ""
     return text + (f", or put {quantity(fix.resistance, 'Ω')} {fix.tolerance * 100:g} % (E24) in series with each string: "
-                   f"it drops {quantity(fix.drop, 'V')} and brings the split to {fix.spread:.1%} (Monte Carlo, "
+                   f"it drops {quantity(fix.drop, 'V')} and brings the split to {quantity(fix.spread, '%')} (Monte Carlo, "
                    f"as above){size}")
 
 

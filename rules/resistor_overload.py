@@ -68,7 +68,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
             if r.power_max > full:
                 severity, limit, what = Severity.ERROR, full, "its full rating of {rating}"
             elif r.power_max > usable:
-                severity, limit, what = Severity.WARNING, usable, "{limit}, " + f"{factor:.0%}" + " of its {rating} rating"
+                severity, limit, what = Severity.WARNING, usable, "{limit}, " + quantity(factor, "%") + " of its {rating} rating"
             else:
                 continue
             need = r.power_max / factor / (full / rating.value) if full > 0 else float("inf")
