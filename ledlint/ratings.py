@@ -90,8 +90,16 @@ _OTHER_PART = re.compile(
 # Only the standard library names: a custom library ("led-board") may hold resistors too.
 _OTHER_LIBRARY = re.compile(r"^(?:Capacitor|Inductor|LED|Diode|Fuse|Crystal)s?(?:_|$)", re.IGNORECASE)
 _NO_DEFAULT = re.compile(
-    r"Shunt|Array|Network|Power|Potentiometer|Trimmer|Thermistor|Varistor|NTC|PTC", re.IGNORECASE
+    r"Shunt|Array|Network|Potentiometer|Trimmer|Thermistor|Varistor|NTC|PTC|Bare_Metal", re.IGNORECASE
 )
+# Cement and wirewound power bodies, by body length: the lowest rating such a body is commonly
+# sold at (from memory; the same body carries two or three ratings across series), so the
+# default errs towards a finding that asks for the part's Power field, not towards a pass.
+_POWER_BODY = re.compile(r"R_(Axial|Radial)_Power_L([0-9]+(?:\.[0-9]+)?)mm", re.IGNORECASE)
+_POWER_BY_LENGTH = {  # (longest first) body length from, mm -> watts at 70 °C
+    "axial": ((60.0, 10.0), (45.0, 7.0), (35.0, 5.0), (24.0, 3.0), (17.0, 2.0)),
+    "radial": ((16.0, 3.0), (11.0, 2.0)),
+}
 
 
 def _split_footprint(footprint: str) -> tuple[str, str]:
@@ -131,6 +139,15 @@ def _axial_rating(name: str) -> PowerRating | None:
     return PowerRating(rows[0].watts, basis, THICK_FILM_UCT_C)
 
 
+def _power_rating(style: str, length_mm: float) -> PowerRating | None:
+    watts = next((w for start, w in _POWER_BY_LENGTH[style] if length_mm >= start), None)
+    if watts is None:
+        return None
+    # 155 °C as for film parts: power bodies run hotter, so this derates early (on the safe side).
+    return PowerRating(watts, f"{style} power body {length_mm:g} mm long: the lowest rating commonly sold in "
+                       "that body (from memory); give the part a Power field", THICK_FILM_UCT_C)
+
+
 def rating_from_footprint(footprint: str) -> PowerRating | None:
     """Return the default 70 °C power rating a resistor footprint implies, or None when unknown.
 
@@ -140,6 +157,9 @@ def rating_from_footprint(footprint: str) -> PowerRating | None:
     library, name = _split_footprint(footprint)
     if _OTHER_PART.match(name) or _OTHER_LIBRARY.match(library) or _NO_DEFAULT.search(name):
         return None
+    power = _POWER_BODY.search(name)
+    if power:
+        return _power_rating(power.group(1).lower(), float(power.group(2)))
     if "axial" in name.lower():
         return _axial_rating(name)
     size = chip_size(footprint)

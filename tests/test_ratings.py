@@ -80,6 +80,24 @@ def test_axial_rating(footprint: str, watts: float) -> None:
 
 
 @pytest.mark.parametrize(
+    ("footprint", "watts"),
+    [
+        # The lowest rating commonly sold in each cement/wirewound body length (from memory):
+        # 17-24 mm 2 W, 24-35 mm 3 W, 35-45 mm 5 W, 45-60 mm 7 W, 60 mm and over 10 W.
+        ("Resistor_THT:R_Axial_Power_L20.0mm_W6.4mm_P22.40mm", 2.0),
+        ("Resistor_THT:R_Axial_Power_L25.0mm_W9.0mm_P30.48mm", 3.0),
+        ("Resistor_THT:R_Axial_Power_L38.0mm_W9.0mm_P45.72mm", 5.0),
+        ("Resistor_THT:R_Axial_Power_L48.0mm_W12.5mm_P55.88mm", 7.0),
+        ("Resistor_THT:R_Axial_Power_L75.0mm_W9.0mm_P81.28mm", 10.0),
+        ("Resistor_THT:R_Radial_Power_L13.0mm_W9.0mm_P5.00mm", 2.0),
+    ],
+)
+def test_power_body_rating_is_the_low_end(footprint: str, watts: float) -> None:
+    rating = rating_from_footprint(footprint)
+    assert rating is not None and rating.watts == watts and "Power field" in rating.basis
+
+
+@pytest.mark.parametrize(
     "footprint",
     [
         # Bodies between or beyond the table's rows: never guess.
@@ -88,7 +106,8 @@ def test_axial_rating(footprint: str, watts: float) -> None:
         "Resistor_THT:R_Axial_DIN0617_L17.0mm_D6.0mm_P20.32mm_Horizontal",
         "Resistor_THT:R_Axial_DIN0918_L18.0mm_D9.0mm_P22.86mm_Horizontal",
         "Resistor_THT:R_Axial_DIN0922_L20.0mm_D9.0mm_P25.40mm_Horizontal",
-        "Resistor_THT:R_Axial_Power_L20.0mm_W6.4mm_P22.40mm",
+        "Resistor_THT:R_Axial_Power_L12.0mm_W6.4mm_P15.24mm",  # shorter than any power body listed
+        "Resistor_THT:R_Bare_Metal_Element_L12.4mm_W4.8mm_P11.40mm",
         "Resistor_THT:R_Axial_DIN0207",  # no dimensions to match
         # Resistors whose rating does not follow the body (field-facts §3: ratings vary by series).
         "Resistor_SMD:R_Shunt_2512_6332Metric",
