@@ -127,5 +127,7 @@ def series_resistance(current_rating: float) -> float:
 
     0.2 V at the rated current reproduces the recalled ranges of field-facts §5c: indicator
     LEDs ≈ 5-20 Ω (10 Ω at 20 mA), 1 W class ≈ 0.3-1.5 Ω (0.57 Ω at 350 mA) [from memory].
+    A low-current LED (rated 2 mA) is an indicator die run gently, not a more resistive one, so
+    ratings under 20 mA keep the indicator's 10 Ω.
     """
-    return 0.2 / current_rating
+    return 0.2 / max(current_rating, 0.020)

@@ -285,7 +285,10 @@ def led_params(component: Component, config: Config, die: str = "") -> LedParams
     tj_max = _quantity(component, config, _die_key("Tj_max", die), parse_temperature, bad) or \
         Param(TJ_MAX, Origin.DEFAULT, "a common LED junction rating (110-150 °C)")
     tc = Param(tech.tc if tech else -0.002, Origin.DEFAULT, f"{tech.name if tech else 'general'} LED")
-    rating = if_max.value if isinstance(if_max, Param) else i_test.value * 1.5
+    if isinstance(if_max, Param) and i_test.origin is Origin.DEFAULT and if_max.value < i_test.value:
+        # A low-current LED (rated 2 mA, say) is specified at or below its rating, not at 20 mA.
+        i_test = Param(if_max.value, Origin.DEFAULT, "its If_max: a low-current LED's Vf is stated there")
+    rating = max(if_max.value, i_test.value) if isinstance(if_max, Param) else i_test.value * 1.5
     return LedParams(
         ref=component.ref, die=die, technology=tech.name if tech else (colour or ""), vf=vf, vf_min=vf_min,
         vf_max=vf_max, i_test=i_test, if_max=if_max, if_max_upper=if_upper, vr_max=vr_max, rth=rth, tj_max=tj_max,

@@ -99,7 +99,7 @@ class LedSpec:
         drop = self.i_test * self.r_s
         if self.vf.minimum <= drop:
             raise ModelError(
-                f"LED Vf minimum {self.vf.minimum!r} V must exceed the series-resistance drop "
+                f"LED Vf minimum {self.vf.minimum:.4g} V must exceed the series-resistance drop "
                 f"i_test*r_s = {drop:.4g} V"
             )
         # Keeps the fitted saturation current far above the floating-point floor.

@@ -74,3 +74,27 @@ def test_assumed_rating_lowers_the_severity(tmp_path: Path) -> None:
     assert 0.020 < lo <= value(f, "worst").value <= hi < 0.030
     assert f.severity is Severity.WARNING
     assert any("If_max 20 mA" in a for a in f.assumed)
+
+
+def low_current_lamp(ohms: str) -> Board:
+    """A 2 mA low-current red LED whose Vf is given without its test current."""
+    b = Board("low", "current-margin fixture")
+    b.resistor("R1", ohms, "+5V", "Net-(D1-A)")
+    b.led("D1", "red", "Net-(D1-A)", "GND", Vf="1.8V", If_max="2mA", Rth="0")
+    return b
+
+
+def test_low_current_led_is_modelled_at_its_rating(tmp_path: Path) -> None:
+    """Vf is taken at If_max, not at 20 mA, so a 2 mA LED gets a model and a verdict."""
+    f = only(run_board(low_current_lamp("1k5"), tmp_path), "current-margin")
+    # Nominal by Ohm's law with Vf at 2 mA: (5 V − 1.8 V) / 1.5 kΩ = 2.13 mA, past If_max.
+    lo, hi = current_bounds(5.0, 1500, 1.8, 0.002)
+    assert lo <= value(f, "nominal").value <= hi and f.severity is Severity.ERROR
+
+
+def test_low_current_led_fixed_twin(tmp_path: Path) -> None:
+    # Worst corner: 5.25 V (+5 %), 2.7 kΩ − 5 % (IEC 60062 J), Vf 1.8 V − 10 %:
+    # under 75 % of 2 mA (field-facts §5b) by Ohm's law's upper bound.
+    assert current_bounds(5.25, 2700 * 0.95, 1.62, 0.002)[1] < 0.75 * 0.002
+    result = run_board(low_current_lamp("2k7"), tmp_path)
+    assert result.findings == ()
