@@ -21,7 +21,7 @@ from ledlint.drive import VCE_SAT, SetCurrent, driver_current, sink_current
 from ledlint.engine import Branch as EBranch
 from ledlint.engine import Circuit as ECircuit
 from ledlint.batch import Job, solve_all
-from ledlint.engine import Corners, LedSpec, ModelError, Range, Solution, forward_voltage, monte_carlo
+from ledlint.engine import Corners, LedSpec, ModelError, Range, Solution, fit_points, forward_voltage, monte_carlo
 from ledlint.graph import NetGraph
 from ledlint.model import Component, Netlist, Pin
 from ledlint.params import (LedParams, Missing, Param, ResistorParams, led_params, pin_limit,
@@ -167,6 +167,18 @@ def _path_drops(elements: tuple[Element, ...], assumptions: list[str]) -> tuple[
     return v, r
 
 
+def _fitted(p: LedParams) -> LedParams:
+    """An LED whose Vf field gives several points: its ideality and series resistance fitted to
+    them (two points fit Rs with the technology's n, three or more fit both)."""
+    if len(p.curve) < 2:
+        return p
+    try:
+        fit = fit_points(p.curve, n=None if len(p.curve) >= 3 else p.n)
+    except ModelError as exc:
+        raise ModelError(f"{p.id}'s Vf points: {exc.message}") from None
+    return replace(p, n=fit.n, r_s=fit.r_s)
+
+
 def _seed(c: LedCircuit) -> int:
     return zlib.crc32(c.id.encode())
 
@@ -176,7 +188,7 @@ class _Analyser:
         self.ctx = ctx
 
     def led_params_of(self, elements: tuple[Element, ...]) -> list[LedParams]:
-        return [led_params(self.ctx.comp(e.ref), self.ctx.config, e.die) for e in elements
+        return [_fitted(led_params(self.ctx.comp(e.ref), self.ctx.config, e.die)) for e in elements
                 if e.kind is ElementKind.LED]
 
     def run(self, c: LedCircuit) -> Analysis | Job[Analysis]:

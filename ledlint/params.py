@@ -187,6 +187,7 @@ class LedParams:
     r_s: float
     ambiguity: str = ""  # why the technology, and so Vf, is uncertain
     unreadable: tuple[Missing, ...] = ()  # fields that are set but cannot be read
+    curve: tuple[tuple[float, float], ...] = ()  # (A, V) datasheet points when Vf gives several
 
     @property
     def id(self) -> str:
@@ -236,12 +237,24 @@ def led_params(component: Component, config: Config, die: str = "") -> LedParams
         if vf_field:
             break
     bad: list[Missing] = []
-    parsed_vf = parse_vf(vf_field.text) if vf_field else None
+    curve: tuple[tuple[float, float], ...] = ()
+    points = [parse_vf(t) for t in vf_field.text.split(";")] if vf_field and ";" in vf_field.text else []
+    if points:
+        # Several points, "2.9V@5mA; 3.1V@20mA; 3.4V@60mA": the first is the typical Vf at its
+        # test current, and all of them shape the diode model (fitted where it is built).
+        if all(pt and pt[1] is not None for pt in points) and len({pt[1].value for pt in points if pt and pt[1]}) \
+                == len(points):
+            curve = tuple((pt[1].value, pt[0].value) for pt in points if pt and pt[1])
+        else:
+            bad.append(Missing("Vf", f"{vf_field.detail} cannot be read as points",  # type: ignore[union-attr]
+                               "write each point with its current, at different currents: "
+                               "Vf = 2.9V@5mA; 3.1V@20mA; 3.4V@60mA"))
+    parsed_vf = (points[0] if curve else None) if points else (parse_vf(vf_field.text) if vf_field else None)
     if vf_field and parsed_vf and not (plausible("Vf", parsed_vf[0].value) and
                           (parsed_vf[1] is None or plausible("If", parsed_vf[1].value))):
         bad.append(Missing("Vf", f"{vf_field.detail} is outside what an LED can be", "check Vf, e.g. Vf = 2.0V@20mA"))
         parsed_vf = None
-    elif vf_field and not parsed_vf:
+    elif vf_field and not parsed_vf and not points:
         bad.append(Missing("Vf", f"{vf_field.detail} cannot be read", "write it like Vf = 2.0V@20mA"))
     if vf_field and (parsed := parsed_vf):
         vq, iq = parsed
@@ -295,7 +308,7 @@ def led_params(component: Component, config: Config, die: str = "") -> LedParams
         tc=tc,
         n=tech.n if tech else 2.0, r_s=series_resistance(rating),
         ambiguity=ambiguity if not isinstance(vf, Param) or vf.origin is Origin.DEFAULT else "",
-        unreadable=tuple(bad),
+        unreadable=tuple(bad), curve=curve,
     )
 
 

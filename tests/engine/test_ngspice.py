@@ -21,7 +21,10 @@ pytestmark = pytest.mark.usefixtures("ngspice")
 
 def _compare(circuit: Circuit, cases: Cases | None = None, rel: float = 0.005,
              solution: Solution | None = None) -> Solution:
-    """Solve with the engine and with ngspice; currents and LED voltages agree within ``rel``."""
+    """Solve with the engine and with ngspice; currents and LED voltages agree within ``rel``.
+
+    0.5 %: well inside what a resistor tolerance moves a current, so a disagreement this large
+    would change a verdict (common practice). Measured agreement is under 1e-4."""
     cases = cases or Cases.build(circuit)
     solution = solution or solve(circuit, cases)
     for s in range(cases.size):
@@ -115,7 +118,7 @@ def test_current_driven_two_strings_of_five(make_led) -> None:
     strings = tuple(Branch(tuple(make_led(v, i_test=0.35, n=2.5, r_s=0.6, tc=-0.0028) for v in row),
                            Range.fixed(1.0)) for row in vfs)
     circuit = Circuit(branches=strings, drive_current=Range.fixed(0.7))
-    sol = _compare(circuit, rel=0.01)
+    sol = _compare(circuit)
     assert sol.branch_current[0].sum() == pytest.approx(0.7, rel=1e-12)
 
 
@@ -124,7 +127,7 @@ def test_current_driven_three_strings(make_led) -> None:
     strings = tuple(Branch(tuple(make_led(v) for v in row), Range.fixed(r))
                     for row, r in zip(vfs, (10.0, 0.0, 4.7)))
     circuit = Circuit(branches=strings, drive_current=Range.fixed(0.06))
-    _compare(circuit, rel=0.01)
+    _compare(circuit)
 
 
 def test_self_heated_point_at_its_own_junction_temperatures(make_led) -> None:
