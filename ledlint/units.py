@@ -154,6 +154,9 @@ def _leading_resistance(text: str) -> tuple[Quantity, str] | Unknown:
     if match is None or match.end() == start:
         return Unknown(text, f"'{stripped}' is not a resistance")
     after = text[match.end() :]
+    if match.group("rkm_letter") and after[:1] in _TOLERANCE_LETTERS and _VALUE_END.match(after[1:]):
+        # The letter code's own tolerance suffix, "4K7J": read as "4K7 J" (IEC 60062, from memory).
+        after = " " + after
     if not _VALUE_END.match(after):
         if after[0] in "-\u2212~" and after[1:2].isdigit():
             return Unknown(text, f"'{stripped}' is a range, not one resistance")

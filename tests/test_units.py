@@ -232,6 +232,9 @@ class TestPitfallsOfGeneralParsers:
 def test_tolerance_letters(letter: str, fraction: float) -> None:
     assert parse_tolerance(letter) == Quantity(fraction, letter)
     assert parse_tolerance(f"4K7 {letter}") == Quantity(fraction, letter)
+    # Glued to the letter code, as IEC 60062 writes it ("4K7J", from memory).
+    assert parse_tolerance(f"4K7{letter}") == Quantity(fraction, letter)
+    assert parse_resistance(f"4K7{letter}") == Quantity(4.7e3, "4K7")
 
 
 @pytest.mark.parametrize(
