@@ -96,7 +96,7 @@ class Config:
 
 
 def suggest(word: str, choices: tuple[str, ...] | list[str]) -> str:
-    near = difflib.get_close_matches(word, list(choices), n=1, cutoff=0.5)
+    near = difflib.get_close_matches(word, list(choices), n=1, cutoff=0.7)
     return f"; did you mean {near[0]!r}?" if near else f"; valid: {', '.join(choices)}"
 
 
@@ -199,6 +199,10 @@ def _parts(table: Any, label: str, path: str) -> Mapping[str, Mapping[str, str]]
         settings = _table(raw, where, path)
         plain = {k: v for k, v in settings.items() if not _DIE_KEY.match(k)}
         _check_keys(plain, PART_KEYS, where, path)
+        names = [canonical.get(k.casefold(), k).casefold() for k in settings]
+        if len(set(names)) < len(names):  # keys match without regard to case: which would win?
+            twice = next(n for n in names if names.count(n) > 1)
+            raise ConfigError(f"{where}: {twice!r} is set twice (keys are matched without regard to case)", path)
         out[key] = FrozenMap({(canonical.get(k.casefold(), k)): _part_value(canonical.get(k.casefold(), k), v,
                                                                              where, path)
                               for k, v in settings.items()})

@@ -78,12 +78,14 @@ def _lookup(component: Component, config: Config, key: str) -> _Text | None:
     settings = config.part_settings(component.ref, component.value, component.lib, component.part)
     ref_only = config.part_settings(component.ref, "\0", "\0", "\0")
     if key in ref_only:
-        return _Text(ref_only[key][0], Origin.CONFIG, ref_only[key][1])
+        text, where = ref_only[key]
+        return _Text(text, Origin.CONFIG, f"{where} {key} = {text!r}")
     field = component.field(key)
     if field is not None and field.strip():
         return _Text(field, Origin.FIELD, f"field {key} = {field!r} on {component.ref}")
     if key in settings:
-        return _Text(settings[key][0], Origin.CONFIG, settings[key][1])
+        text, where = settings[key]
+        return _Text(text, Origin.CONFIG, f"{where} {key} = {text!r}")
     return None
 
 
@@ -202,32 +204,36 @@ def _die_key(key: str, die: str) -> tuple[str, ...]:
     return (f"{key}_{die}", key) if die else (key,)
 
 
-def _technology(component: Component, config: Config, die: str) -> tuple[str | None, str]:
+def _technology(component: Component, config: Config, die: str) -> tuple[str | None, str, bool]:
+    """The LED's technology, where it was read, and whether a colour field or key set it."""
     found = None
     for key in _die_key("colour", die):
         found = _lookup(component, config, key)
         if found:
             break
     if found:
-        return colour_from_text(found.text), found.detail
+        return colour_from_text(found.text), found.detail, True
     if die:
         colour = die_colour(die)
         if colour:
-            return colour, f"die {die} of {component.ref}"
+            return colour, f"die {die} of {component.ref}", False
     text = " ".join([component.value, component.part, component.description,
                      *(v for k, v in component.fields.items() if k.casefold() == "description")])
-    return colour_from_text(text), f"colour from {component.ref}'s value or description"
+    return colour_from_text(text), f"colour from {component.ref}'s value or description", False
 
 
 def led_params(component: Component, config: Config, die: str = "") -> LedParams:
-    colour, colour_where = _technology(component, config, die)
+    colour, colour_where, colour_set = _technology(component, config, die)
     tech: Technology | None = TECHNOLOGIES.get(colour or "")
     ambiguity = ""
     if colour == AMBIGUOUS_GREEN:
         ambiguity = ("green may be GaP (about 2.2 V) or InGaN (about 3.2 V); "
                      "add a Vf field or say which in the value")
-    elif colour is None:
+    elif colour is None and not colour_set:
         ambiguity = "the colour is not stated in the value, part, description or fields"
+    elif colour is None:  # a colour someone set must name one: say so rather than "not stated"
+        ambiguity = (f"{colour_where} names no colour ledlint knows ({', '.join(sorted(TECHNOLOGIES))}, "
+                     "or a wavelength such as 630nm)")
 
     i_test = Param(TEST_CURRENT, Origin.DEFAULT, "20 mA, the usual datasheet test current")
     vf: Param | Missing

@@ -9,7 +9,7 @@ from concurrent.futures import ProcessPoolExecutor
 from dataclasses import dataclass, replace
 from importlib.metadata import entry_points
 from pathlib import Path
-from typing import Callable, Sequence
+from typing import Callable, Iterable, Sequence
 
 from ledlint import config as configuration
 from ledlint.analyse import BoardAnalysis, analyse
@@ -41,6 +41,7 @@ class RunResult:
     files: tuple[FileResult, ...]
     rules: tuple[Rule, ...]
     unused_waivers: tuple[Waiver, ...]
+    unused_settings: tuple[str, ...] = ()  # part tables of a configuration that matched no part
 
     @property
     def findings(self) -> tuple[Finding, ...]:
@@ -171,7 +172,22 @@ def check(paths: Sequence[str | Path], *, config_path: str | None = None,
     for cfg in configs.values():
         used: set[int] = set().union(*(u for (res, _, u) in done if res.config_path == cfg.path))
         unused += [w for i, w in enumerate(cfg.waivers) if i not in used]
-    return RunResult(tuple(r for r, _, _ in done), rules, tuple(unused))
+    files = tuple(r for r, _, _ in done)
+    return RunResult(files, rules, tuple(unused), _unused_settings(configs.values(), files))
+
+
+def _unused_settings(configs: Iterable[Config], files: tuple[FileResult, ...]) -> tuple[str, ...]:
+    """Each [refs.X], [values.X] or [symbols.X] table that matched no part of the files it applied
+    to: a mistyped reference would otherwise change nothing, silently."""
+    out = []
+    for cfg in configs:
+        parts = [c for f in files if f.config_path == cfg.path for c in f.netlist.components]
+        seen = {"refs": {c.ref for c in parts}, "values": {c.value for c in parts},
+                "symbols": {c.part for c in parts} | {f"{c.lib}:{c.part}" for c in parts}}
+        for label, table in (("refs", cfg.refs), ("values", cfg.values), ("symbols", cfg.symbols)):
+            out += [f"{cfg.path} [{label}.{key!r}]: matches no part in the netlists checked"
+                    for key in table if key not in seen[label]]
+    return tuple(out)
 
 
 def _safe_check(job: _Job) -> tuple[FileResult, list[Waiver], set[int]] | LedlintError:

@@ -80,6 +80,7 @@ reason = "only one LED lit at a time (firmware)"
         ({"waivers": [{"rule": "unlimited-led", "ref": "D1"}]}, "needs 'rule' and 'reason'"),
         ({"waivers": [{"rule": "unlimited-led", "reason": "x"}]}, "names a component"),
         ({"waivers": {"rule": "x"}}, "array of tables"),
+        ({"refs": {"D1": {"Vf": "2V", "vf": "2.1V"}}}, "'vf' is set twice"),
     ],
 )
 def test_bad_configuration_names_the_key(data: dict, words: str) -> None:
@@ -133,3 +134,31 @@ def test_broken_pyproject_meant_for_us_is_an_error(tmp_path) -> None:
     with pytest.raises(ConfigError) as e:
         load(tmp_path / "pyproject.toml")
     assert e.value.line == 2  # file, line and column, not silence (tomllib reports the position)
+
+
+def test_settings_that_match_no_part_are_reported(tmp_path) -> None:
+    """A mistyped reference would change nothing; the run says which tables matched no part."""
+    from kicad8 import Board
+
+    from ledlint.run import check
+
+    b = Board("cfg", "unused settings")
+    b.resistor("R1", "330", "+5V", "/A")
+    b.led("D1", "LED_red", "/A", "GND")
+    (tmp_path / "cfg.net").write_text(b.text(), encoding="utf-8")
+    (tmp_path / "ledlint.toml").write_text('[refs."D1"]\nIf_max = "20mA"\n[refs."D99"]\nIf_max = "20mA"\n'
+                                           '[values."NOPE"]\nPower = "0.25W"\n', encoding="utf-8")
+    result = check([tmp_path / "cfg.net"])
+    assert len(result.unused_settings) == 2
+    assert "[refs.'D99']" in result.unused_settings[0] and "[values.'NOPE']" in result.unused_settings[1]
+
+
+def test_a_colour_set_to_no_known_colour_says_so(tmp_path) -> None:
+    from kicad8 import Board
+    from rulecheck import of_rule, run_board
+
+    b = Board("cfg", "colour")
+    b.resistor("R1", "330", "+5V", "/A")
+    b.led("D1", "yellow", "/A", "GND")
+    [f] = of_rule(run_board(b, tmp_path, '[refs."D1"]\ncolour = "purple"\n'), "missing-parameter")
+    assert "colour = 'purple' names no colour ledlint knows" in f.message

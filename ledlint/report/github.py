@@ -42,5 +42,6 @@ def render(result: RunResult) -> str:
         lines += [command("notice", f"reader note: {n.message}", file=posix_path(fr.path), line=n.line,
                           col=n.column, title="ledlint reader") for n in fr.netlist.notes]
     lines += [command("warning", unused_waiver(w), title="ledlint waiver") for w in result.unused_waivers]
+    lines += [command("warning", f"unused setting {s}", title="ledlint configuration") for s in result.unused_settings]
     lines.append("ledlint: " + summary(result))
     return "\n".join(lines) + "\n"

@@ -49,6 +49,7 @@ def document(result: RunResult) -> dict[str, Any]:
         "waived": [finding_json(f) for r in result.files for f in r.waived],
         "unused_waivers": [{"rule": w.rule, "ref": w.ref or None, "fingerprint": w.fingerprint or None,
                             "reason": w.reason, "origin": w.origin} for w in result.unused_waivers],
+        "unused_settings": list(result.unused_settings),
         "circuits": [c.as_json() for c in rows(result)],
     }
 

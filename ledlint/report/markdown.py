@@ -68,6 +68,7 @@ def render(result: RunResult) -> str:
     else:
         out.append("No findings.")
     notes = [f"- {cell(unused_waiver(w))}" for w in result.unused_waivers]
+    notes += [f"- unused setting {cell(s)}" for s in result.unused_settings]
     for fr in result.files:
         notes += [f"- **caution** `{cell(posix_path(fr.path))}`: {cell(c)}. {SAFETY}" for c in fr.board.cautions]
         notes += [f"- reader note `{cell(posix_path(fr.path))}:{n.line}`: {cell(n.message)}" for n in fr.netlist.notes]

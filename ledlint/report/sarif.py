@@ -129,6 +129,7 @@ def _notifications(result: RunResult, start: str | Path | None) -> list[dict[str
                         "locations": [{"physicalLocation": location}]})
     for w in result.unused_waivers:
         out.append({"level": "warning", "message": {"text": unused_waiver(w)}})
+    out += [{"level": "warning", "message": {"text": f"unused setting {s}"}} for s in result.unused_settings]
     return out
 
 

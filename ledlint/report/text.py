@@ -136,6 +136,8 @@ def render(result: RunResult, *, circuits: bool = False, color: bool = False, wi
     for w in result.unused_waivers:
         console.print(f"[yellow]unused waiver[/] {escape(w.rule)} for {escape(w.ref or w.fingerprint)} "
                       f"({escape(w.origin)}): it silences nothing")
+    for s in result.unused_settings:
+        console.print(f"[yellow]unused setting[/] {escape(s)}")
     counts = result.counts()
     total = sum(len(fr.board.circuits) for fr in result.files)
     analysed = sum(a.solved for fr in result.files for a in fr.board.analyses)
