@@ -67,9 +67,12 @@ _QUALIFIERS = frozenset(
         "LOGIC", "FAN", "MOTOR", "FUSED", "EXT", "BAT", "BATT",
     }
 )  # fmt: skip
-_MAINS_WORDS = frozenset(
-    {"L", "N", "LINE", "NEUTRAL", "MAINS", "LIVE", "PHASE", "AC_L", "AC_N", "AC_LINE", "AC_NEUTRAL"}
-)
+# Words that mean mains wherever they stand ("MAINS_L", "LIVE_SENSE"), and conductor names that
+# do when the whole name is made of them ("L", "N_IN", "AC_L", "L1" of three phases; but "LINE_IN"
+# is the audio input).
+_MAINS_ANYWHERE = frozenset({"MAINS", "LIVE", "NEUTRAL", "PHASE"})
+_CONDUCTORS = frozenset({"L", "N", "L1", "L2", "L3", "LINE"})
+_CONDUCTOR_QUALIFIERS = frozenset({"AC", "IN", "OUT"})
 # Nominal line voltages of public mains (100 V to 277 V); lower AC is a transformer secondary.
 _MAINS_RANGE = (100.0, 277.0)
 
@@ -147,8 +150,21 @@ def is_mains_name(name: str) -> bool:
     "AC1"/"AC2" are not counted: bridge inputs carry those names at any voltage.
     """
     own = _last_segment(name)
-    if own.upper() in _MAINS_WORDS:
+    if _GENERATED.match(own):
+        return False
+    words = [w for w in re.split(r"[_\-\s]+", own.upper()) if w]
+    if _MAINS_ANYWHERE & set(words):
         return True
+    if words and set(words) <= _CONDUCTORS | _CONDUCTOR_QUALIFIERS and _CONDUCTORS & set(words) \
+            and set(words) != {"LINE", "IN"}:
+        return True
+    # A mains voltage written as AC anywhere in the name: "230VAC_L", "120VAC_HOT".
+    for i, word in enumerate(words):
+        m = _VOLTAGE_WORD.fullmatch(word)
+        ac = m is not None and ((m.group("suffix") or "").upper() in ("AC", "~") or "AC" in words[i + 1:i + 2])
+        volts = parse_voltage(m.group("volts")) if m and ac else None
+        if volts is not None and _MAINS_RANGE[0] <= abs(volts.value) <= _MAINS_RANGE[1]:
+            return True
     rail = rail_from_net_name(name)
     return (
         rail is not None and rail.kind is RailKind.AC and _MAINS_RANGE[0] <= rail.nominal <= _MAINS_RANGE[1]

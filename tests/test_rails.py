@@ -190,6 +190,13 @@ def test_not_supplies_of_unknown_voltage(name: str) -> None:
         "~230V",
         "/input/L",
         "Live",
+        "/230VAC_L",
+        "/MAINS_L",
+        "/L_IN",
+        "/N_IN",
+        "/L1",
+        "/120VAC_HOT",
+        "LIVE_SENSE",
     ],
 )
 def test_mains_names(name: str) -> None:
@@ -198,10 +205,12 @@ def test_mains_names(name: str) -> None:
 
 
 @pytest.mark.parametrize(
-    "name", ["AC1", "AC2", "24VAC", "12V_AC", "+5V", "GND", "LED", "L_EN", "Net-(L1-Pad1)", ""]
+    "name", ["AC1", "AC2", "24VAC", "12V_AC", "+5V", "GND", "LED", "L_EN", "Net-(L1-Pad1)", "", "/LINE_IN",
+             "/HOT", "/LED_L", "12VAC_L"]
 )
 def test_not_mains_names(name: str) -> None:
-    # Decision: AC1/AC2 are bridge inputs at any voltage, so they alone do not mean mains.
+    # Decision: AC1/AC2 are bridge inputs at any voltage, so they alone do not mean mains; LINE_IN
+    # is the audio input; a 12 V AC secondary is not mains (common practice).
     assert not is_mains_name(name)
 
 
