@@ -28,7 +28,7 @@ from ledlint.params import (LedParams, Missing, Param, ResistorParams, led_param
                             rail_params, resistor_params)
 from ledlint.parts import Kind
 from ledlint.recognise import CircuitKind, LedCircuit, ReferenceKind, recognise
-from ledlint.supplies import Supply, cautions, circuit_supply, end_voltage, ic_supply
+from ledlint.supplies import SQRT2, Supply, cautions, circuit_supply, end_voltage, ic_supply
 from ledlint.topology import Element, ElementKind, Terminal, TerminalKind
 
 # Switch drops: a saturated BJT (VCE_SAT) and a small-signal MOSFET's on-resistance,
@@ -231,7 +231,7 @@ class _Analyser:
         first_supply = next((s[0] for s in supplies if s), None)
         if missing or any(s is None for s in supplies):
             return Analysis(c, missing=tuple(missing), supply=first_supply, unlimited=unlimited, ambiguity=ambiguity)
-        v_sw, r_sw = _path_drops(c.top + c.bottom + tuple(e for b in c.branches for e in b.elements), assumptions)
+        v_sw, r_sw = _path_drops(_all_elements(c), assumptions)
         rc = _resistance(common_res)
         plans = []
         for (src, ret, ks), sup in zip(problems, supplies):
@@ -248,6 +248,19 @@ class _Analyser:
         engines = tuple(s.engine for s in solved)
         results = tuple(r for s in solved for r in s.leds)
         resistors = tuple(_worst_per_ref([r for s in solved for r in s.resistors]))
+        reverse = max(s[0].reverse_peak for s in supplies if s)
+        if reverse > 0:
+            resistors = tuple(_ac_average(r, reverse / SQRT2) for r in resistors)
+            assumptions.append("AC supply: resistor dissipation averaged over the cycle, at most V_rms² / 2R")
+            series = [e.ref for e in _all_elements(c) if e.kind is ElementKind.DIODE]
+            if series:
+                assumptions.append(f"AC supply: {', '.join(series)} in series takes the reverse half-cycle, "
+                                   f"{reverse:.3g} V (its leakage is far below an LED's, common practice)")
+            else:
+                # Leakage decides how a string shares the reverse half-cycle: one LED may take it all.
+                results = tuple(replace(r, reverse_v=max(r.reverse_v, reverse)) for r in results)
+                assumptions.append("AC supply: the whole reverse peak may fall on one LED (leakage decides)")
+        results = _guarded(c, results, assumptions)
         pins = tuple(p for s in solved for p in s.pins)
         gains = [s.loop_gain for s in solved if s.loop_gain is not None]
         return Analysis(c, solved=True, assumptions=tuple(dict.fromkeys(assumptions)), supply=first_supply,
@@ -366,7 +379,7 @@ class _Analyser:
             worst = max(sum(_vf_max_at(p, setc.current.maximum / k, self.ctx.ambient.minimum) for p in ps)
                         for ps in branch_leds)
             headroom = sup[0].volts.minimum - worst - setc.sense_voltage.maximum - setc.dropout.maximum
-        results = tuple(_led_results(cor, flat))
+        results = _guarded(c, tuple(_led_results(cor, flat)), notes)
         return Analysis(c, solved=True, missing=tuple(missing), assumptions=tuple(dict.fromkeys(notes)),
                         supply=sup[0] if sup else None, set_current=setc, leds=results, resistors=tuple(resistors),
                         nominal_current=setc.current.nominal / k, headroom_v=headroom, sharing=sharing,
@@ -423,6 +436,29 @@ def _led_results(cor: Corners, flat: list[LedParams]) -> list[LedResult]:
                              float(nominal.led_voltage[j]), float(sol.tj[:, j].max()),
                              max(0.0, -float(sol.led_voltage[:, j].min())), float(cor.min_current.led_current[j])))
     return out
+
+
+def _all_elements(c: LedCircuit) -> tuple[Element, ...]:
+    return c.top + c.bottom + tuple(e for b in c.branches for e in b.elements)
+
+
+def _guarded(c: LedCircuit, results: tuple[LedResult, ...], notes: list[str]) -> tuple[LedResult, ...]:
+    """LEDs with an antiparallel diode see no more reverse voltage than its forward drop."""
+    guards = {e.id: e.guard for e in _all_elements(c) if e.guard}
+    if not guards:
+        return results
+    notes += [f"{g} across {led} takes its reverse voltage: at most {V_DIODE.maximum:g} V" for led, g in guards.items()]
+    return tuple(replace(r, reverse_v=min(r.reverse_v, V_DIODE.maximum)) if r.id in guards else r for r in results)
+
+
+def _ac_average(r: ResistorResult, v_rms: float) -> ResistorResult:
+    """A resistor's dissipation on an AC supply, averaged over the cycle: it never sees more than
+    the supply's instantaneous voltage and conducts only in the forward half-cycle, so
+    P ≤ V_rms² / 2R (the mean of v² over one half of a sine is V_rms²)."""
+    if not isinstance(r.params.resistance, Param):
+        return r
+    r_min = r.params.resistance.value * (1 - r.params.tolerance.value)
+    return replace(r, power_max=min(r.power_max, v_rms * v_rms / (2 * r_min))) if r_min > 0 else r
 
 
 def _ohms(rp: ResistorParams) -> bool:

@@ -329,6 +329,7 @@ class RailParams:
     origin: Origin
     detail: str
     ground: bool = False
+    ac: bool = False  # the voltages are RMS of an alternating supply
 
 
 def rail_params(net: str, config: Config) -> RailParams | None:
@@ -343,7 +344,7 @@ def rail_params(net: str, config: Config) -> RailParams | None:
     if rail is None:
         return None
     return RailParams(net, rail.nominal, rail.minimum, rail.maximum, Origin.NET_NAME, rail.source,
-                      ground=rail.kind is RailKind.GROUND)
+                      ground=rail.kind is RailKind.GROUND, ac=rail.kind is RailKind.AC)
 
 
 # A controller pin's continuous current, when its datasheet is not given (common practice;

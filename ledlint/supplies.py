@@ -20,13 +20,15 @@ from ledlint.parts import Kind, classify
 from ledlint.rails import is_mains_name
 from ledlint.topology import Terminal, TerminalKind
 
+SQRT2 = 2 ** 0.5  # peak over RMS of a sine
 HIGH_VOLTAGE = 60.0  # V DC: above it the usual safety caution applies (SELV limit, common practice)
 
 
 @dataclass(frozen=True)
 class Supply:
-    volts: Range  # source minus return
+    volts: Range  # source minus return (for an AC rail, its forward peak)
     basis: tuple[str, ...]
+    reverse_peak: float = 0.0  # V: an AC rail's peak against the LEDs in the other half-cycle
 
 
 def _supply_pins(comp: Component) -> list[Pin]:
@@ -78,6 +80,13 @@ def end_voltage(graph: NetGraph, config: Config, t: Terminal | None, high: bool,
     if t.kind is TerminalKind.RAIL:
         r = rail_params(t.net, config)
         assert r is not None
+        if r.ac:
+            # Sine peaks at √2 × RMS: the forward half-cycle taken at its peak (a conservative
+            # reading of a continuous If_max), the other half-cycle reverses the LEDs.
+            peak = Range(r.nominal * SQRT2, r.minimum * SQRT2, r.maximum * SQRT2)
+            basis.append(f"{t.net} AC {r.minimum:g}-{r.maximum:g} V RMS ({r.detail}): peaks of "
+                         f"{peak.minimum:.3g}-{peak.maximum:.3g} V, the forward half-cycle taken at its peak")
+            return peak, Range.fixed(0.0)
         basis.append(f"{t.net} {r.minimum:g}-{r.maximum:g} V ({r.detail})")
         return Range(r.nominal, r.minimum, r.maximum), Range.fixed(0.0)
     comp = graph.component(t.pin.ref) if t.pin is not None else None
@@ -120,7 +129,9 @@ def circuit_supply(graph: NetGraph, config: Config, source: Terminal | None, ret
     bottom = end_voltage(graph, config, ret, False, missing, basis)
     if top is None or bottom is None:
         return None
-    return Supply(top[0] - bottom[0], tuple(basis)), top[1] + bottom[1]
+    ac = [rail_params(t.net, config) for t in (source, ret) if t is not None and t.kind is TerminalKind.RAIL]
+    reverse = max((r.maximum * SQRT2 for r in ac if r is not None and r.ac), default=0.0)
+    return Supply(top[0] - bottom[0], tuple(basis), reverse), top[1] + bottom[1]
 
 
 def cautions(netlist: Netlist, sources: Iterable[Terminal | None], supplies: Iterable[tuple[str, Supply | None]],

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import re
 from collections import deque
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from enum import Enum
 
 from ledlint.config import Config
@@ -45,14 +45,14 @@ class Element:
     control: str = ""  # base or gate pin number of a switch
     against: bool = False  # placed in a chain against its own forward direction
     assumption: str = ""  # e.g. an assumed pinout
+    guard: str = ""  # an LED's antiparallel protection diode, which takes its reverse voltage
 
     @property
     def id(self) -> str:
         return f"{self.ref}:{self.die}" if self.die else self.ref
 
     def flipped(self) -> Element:
-        return Element(self.ref, self.kind, self.b, self.a, self.net_b, self.net_a, self.die, self.part,
-                       self.control, not self.against, self.assumption)
+        return replace(self, a=self.b, b=self.a, net_a=self.net_b, net_b=self.net_a, against=not self.against)
 
     @property
     def polar(self) -> bool:
@@ -172,6 +172,18 @@ def _ignored(comp: Component) -> bool:
     return len(comp.pins) <= 1 and bool(_IGNORED_ONE_PIN.match(comp.ref))
 
 
+def _guards(elements: list[Element]) -> dict[str, str]:
+    """LED id → the diode wired antiparallel across it (anode on its cathode, cathode on its
+    anode): the usual reverse-voltage protection, which never conducts forward current."""
+    leds = {(e.net_a, e.net_b): e.id for e in elements if e.kind is ElementKind.LED}
+    out: dict[str, str] = {}
+    for d in elements:
+        led = leds.get((d.net_b, d.net_a)) if d.kind is ElementKind.DIODE else None
+        if led and led not in out and d.ref not in out.values():
+            out[led] = d.ref
+    return out
+
+
 @dataclass
 class Topology:
     """Elements, segments and net roles of one netlist (built once, then read)."""
@@ -183,14 +195,16 @@ class Topology:
         self.elements: list[Element] = []
         self.other_pins: dict[str, list[Pin]] = {}
         self.ends: dict[str, list[tuple[int, str]]] = {}  # net -> (element index, "a" | "b")
-        for comp in self.graph.netlist.components:
-            if _ignored(comp):
-                continue
-            elems = elements_of(comp, self.config)
+        parts = [(comp, elements_of(comp, self.config)) for comp in self.graph.netlist.components
+                 if not _ignored(comp)]
+        guards = _guards([e for _, elems in parts for e in elems or ()])
+        for comp, elems in parts:
+            if comp.ref in guards.values():
+                continue  # an antiparallel protection diode: part of the LED it guards
             used = {p for e in elems or () for p in (e.a, e.b)}
             for e in elems or ():
                 i = len(self.elements)
-                self.elements.append(e)
+                self.elements.append(replace(e, guard=guards.get(e.id, "")))
                 self.ends.setdefault(e.net_a, []).append((i, "a"))
                 self.ends.setdefault(e.net_b, []).append((i, "b"))
             for pin in comp.pins:

@@ -4,7 +4,8 @@ What it flags
     An LED whose anode sits on the lower of its two supply nets (it never lights), a string
     with an LED facing against the others (the string never conducts and that LED takes the
     reverse voltage), or any LED that can see more reverse voltage than its Vr_max (5 V when
-    not given).
+    not given): an LED on an AC rail ("12VAC") takes the rail's negative peak every half
+    cycle unless a diode in series or antiparallel across it takes that instead.
 
 Why it matters
     LEDs are not designed for reverse operation: the 5 V in a datasheet is only the leakage
@@ -21,7 +22,8 @@ Fix
 
 Formula
     V_reverse = the most negative voltage across the LED over supply tolerance; in a
-    reversed string the whole supply is taken to fall on one LED (leakage decides which).
+    reversed string the whole supply is taken to fall on one LED (leakage decides which). On
+    AC, V_reverse = √2 × V_rms,max; an antiparallel diode limits it to that diode's forward drop.
 
 Source
     LED datasheets give the reverse voltage (usually 5 V) only as the leakage test condition

@@ -18,6 +18,7 @@ SYMBOLS: dict[str, tuple[str, str, str, str, tuple[tuple[str, str, str], ...]]] 
             (("1", "K", "passive"), ("2", "A", "passive"))),
     "R": ("Device", "R", "Resistor", "R res resistor", (("1", "", "passive"), ("2", "", "passive"))),
     "C": ("Device", "C", "Unpolarized capacitor", "cap capacitor", (("1", "", "passive"), ("2", "", "passive"))),
+    "D": ("Device", "D", "Diode", "diode", (("1", "K", "passive"), ("2", "A", "passive"))),
     "D_Zener": ("Device", "D_Zener", "Zener diode", "diode", (("1", "K", "passive"), ("2", "A", "passive"))),
     "Q_NPN_BEC": ("Device", "Q_NPN_BEC", "NPN transistor, base/emitter/collector", "transistor NPN",
                   (("1", "B", "input"), ("2", "E", "passive"), ("3", "C", "passive"))),

@@ -6,7 +6,7 @@ from pathlib import Path
 
 import pytest
 from kicad8 import Board
-from rulecheck import line_of, of_rule, only, run_board, value
+from rulecheck import current_bounds, line_of, of_rule, only, run_board, value
 
 from ledlint.findings import Severity
 
@@ -57,3 +57,48 @@ def test_fixed_twin_turned_round(tmp_path: Path) -> None:
     result = run_board(door_lamp(reversed_=False), tmp_path)
     assert of_rule(result, "reverse-bias") == []
     assert result.findings == ()
+
+
+# A 12 V AC secondary at +5 % (±5 % default): a sine peaks at √2 × RMS (fact of the trade).
+AC_PEAK = 12.0 * 1.05 * 2 ** 0.5
+
+
+def ac_lamp(guard: str = "") -> Board:
+    """A red lamp straight off a 12 V AC secondary through 1 kΩ; optionally a protection diode."""
+    b = Board("ac", "reverse-bias AC fixture")
+    if guard == "series":
+        b.resistor("R1", "1k", "/12VAC", "/K", footprint="Resistor_SMD:R_1206_3216Metric")
+        b.add("D2", "D", "1N4148", "Diode_SMD:D_SOD-123", {"2": "/K", "1": "/A"})
+    else:
+        b.resistor("R1", "1k", "/12VAC", "/A", footprint="Resistor_SMD:R_1206_3216Metric")
+    b.led("D1", "red", "/A", "GND", Vf="2.0V@10mA", If_max="20mA", Rth="0")
+    if guard == "antiparallel":
+        b.add("D2", "D", "1N4148", "Diode_SMD:D_SOD-123", {"2": "GND", "1": "/A"})
+    return b
+
+
+def test_ac_supply_reverses_the_led_every_half_cycle(tmp_path: Path) -> None:
+    result = run_board(ac_lamp(), tmp_path)
+    f = only(result, "reverse-bias")
+    assert value(f, "reverse").value == pytest.approx(AC_PEAK, rel=1e-6) and f.severity is Severity.ERROR
+    assert "antiparallel" in f.hint
+    # The ballast sees at most the supply's instantaneous voltage, and only while the LED
+    # conducts: P ≤ V_rms² / 2R, the mean of v²/R over half a sine (handbook: mean of sin² = 1/2).
+    r1 = result.board.analyses[0].resistors[0]
+    assert r1.power_max <= (12.0 * 1.05) ** 2 / (2 * 1000 * 0.95) * (1 + 1e-9)
+    # Forward, the half-cycle is taken at its peak: the worst corner by Ohm's law with the LED's
+    # curve bounded (peak, 1 kΩ − 5 %, Vf 2.0 V − 10 % at 10 mA).
+    lo, hi = current_bounds(AC_PEAK, 950, 1.8, 0.010)
+    assert lo <= result.board.analyses[0].leds[0].current.maximum <= hi
+
+
+@pytest.mark.parametrize("guard", ["antiparallel", "series"])
+def test_ac_lamp_with_a_protection_diode(tmp_path: Path, guard: str) -> None:
+    """Fixed twins: an antiparallel diode clamps the LED's reverse voltage to its own forward drop;
+    a series diode takes the reverse half-cycle (its leakage is far below an LED's, common practice)."""
+    result = run_board(ac_lamp(guard), tmp_path)
+    a = result.board.analyses[0]
+    assert a.solved and a.circuit.leds == ("D1",)
+    assert of_rule(result, "reverse-bias") == []
+    assert a.leds[0].reverse_v <= 1.0
+    assert any("D2" in x for x in a.assumptions)
