@@ -28,7 +28,7 @@ from ledlint.params import (LedParams, Missing, Param, ResistorParams, led_param
                             rail_params, resistor_params)
 from ledlint.parts import Kind
 from ledlint.recognise import CircuitKind, LedCircuit, ReferenceKind, recognise
-from ledlint.supplies import SQRT2, Supply, cautions, circuit_supply, end_voltage, ic_supply
+from ledlint.supplies import SQRT2, Supply, cautions, circuit_supply, end_voltage, ic_supply, rail_of
 from ledlint.topology import Element, ElementKind, Terminal, TerminalKind
 
 # Switch drops: a saturated BJT (VCE_SAT) and a small-signal MOSFET's on-resistance,
@@ -106,6 +106,7 @@ class Analysis:
     engine: tuple[ECircuit, ...] = ()  # the engine's circuits, one per string lit alone or one in all
     gaps: tuple[Missing, ...] = ()  # what one check lacks while the rest ran (an LED's unknown If_max)
     ambient_basis: str = ""  # the ambient range the corners span, and where it comes from
+    rail: str = ""  # the rail net the current comes from (a driver pin's: its IC's supply)
 
     @property
     def reversed(self) -> bool:
@@ -330,7 +331,7 @@ class _Analyser:
             ref = c.sink.reference
             if ref.kind is ReferenceKind.PIN and ref.pin is not None:
                 got = ic_supply(self.ctx.comp(ref.pin.ref), self.ctx.config)
-                rail = got[0] if got else None
+                rail = got.volts if got else None
             elif ref.rail:
                 r = rail_params(ref.rail, self.ctx.config)
                 rail = Range(r.nominal, r.minimum, r.maximum) if r else None
@@ -399,7 +400,7 @@ class _Analyser:
                 missing.append(Missing("input voltage", f"{c.driver.ref}'s input rail has no known voltage",
                                        f"give {c.driver.ref} vin_min and vin_max, or name its input rail's voltage"))
                 return None
-            return Supply(got[0], (got[1],)), Range.fixed(0.0)
+            return Supply(got.volts, (got.basis,)), Range.fixed(0.0)
         top = c.source if c.source is not None and c.source.kind is not TerminalKind.PIN else None
         if top is None:
             return None
@@ -436,6 +437,12 @@ def _led_results(cor: Corners, flat: list[LedParams]) -> list[LedResult]:
                              float(nominal.led_voltage[j]), float(sol.tj[:, j].max()),
                              max(0.0, -float(sol.led_voltage[:, j].min())), float(cor.min_current.led_current[j])))
     return out
+
+
+def _rail(graph: NetGraph, config: Config, c: LedCircuit) -> str:
+    if c.kind is CircuitKind.ADDRESSABLE:  # the LEDs' own supply pins are on the source net
+        return c.source.net if c.source else ""
+    return rail_of(graph, config, [c.source, c.ret] + [b.far for b in c.branches])
 
 
 def _all_elements(c: LedCircuit) -> tuple[Element, ...]:
@@ -525,6 +532,7 @@ def analyse(netlist: Netlist, config: Config) -> BoardAnalysis:
     given = config.ambient_set
     ambient = (f"ambient {config.ambient_min_c:g} to {config.ambient_max_c:g} °C "
                f"({config.path + ' [ambient]' if given else 'the default for an indoor product; set [ambient]'})")
-    analyses = tuple(replace(a, ambient_basis=ambient) if a.solved else a for a in analyses)
+    analyses = tuple(replace(a, ambient_basis=ambient if a.solved else "", rail=_rail(graph, config, a.circuit))
+                     for a in analyses)
     caution = cautions(netlist, [c.source for c in circuits], [(a.circuit.id, a.supply) for a in analyses], config)
     return BoardAnalysis(netlist, circuits, analyses, caution, FrozenMap({c.ref: c for c in netlist.components}))

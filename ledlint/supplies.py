@@ -31,6 +31,15 @@ class Supply:
     reverse_peak: float = 0.0  # V: an AC rail's peak against the LEDs in the other half-cycle
 
 
+@dataclass(frozen=True)
+class IcSupply:
+    """The rail an IC runs from, as seen on its supply pins."""
+
+    volts: Range
+    net: str
+    basis: str
+
+
 def _supply_pins(comp: Component) -> list[Pin]:
     return [p for p in comp.pins if p.net is not None
             and (p.type is PinType.POWER_IN or re.match(r"^(V|AV|DV|IOV)(CC|DD)", p.name, re.I))]
@@ -54,19 +63,16 @@ def _is_ground(net: str | None, config: Config) -> bool:
     return r is not None and r.ground
 
 
-def ic_supply(comp: Component, config: Config) -> tuple[Range, str] | None:
+def ic_supply(comp: Component, config: Config) -> IcSupply | None:
     """The positive rail an IC runs from: its best-ranked supply pin with a known rail, the highest
     of those."""
     found = []
     for p in _supply_pins(comp):
         r = rail_params(p.net, config)  # type: ignore[arg-type]
-        if r is not None and not r.ground and r.nominal > 0:
-            found.append((-_supply_rank(p), r.nominal, Range(r.nominal, r.minimum, r.maximum), f"{comp.ref} runs "
-                          f"from {p.net} ({r.nominal:g} V, pin {p.name or p.number}; {r.detail})"))
-    if not found:
-        return None
-    best = max(found, key=lambda f: (f[0], f[1]))
-    return best[2], best[3]
+        if r is not None and p.net and not r.ground and r.nominal > 0:
+            found.append((-_supply_rank(p), r.nominal, IcSupply(Range(r.nominal, r.minimum, r.maximum), p.net,
+                          f"{comp.ref} runs from {p.net} ({r.nominal:g} V, pin {p.name or p.number}; {r.detail})")))
+    return max(found, key=lambda f: (f[0], f[1]))[2] if found else None
 
 
 def end_voltage(graph: NetGraph, config: Config, t: Terminal | None, high: bool, missing: list[Missing],
@@ -104,9 +110,9 @@ def end_voltage(graph: NetGraph, config: Config, t: Terminal | None, high: bool,
             missing.append(Missing("supply voltage", f"{comp.ref} drives LEDs, and {where}, with no voltage "
                                    "known", _rail_fix(nets[0] if nets else "NET", "nominal = 3.3")))
             return None
-        basis.append(f"{t.detail} sources its supply: {sup[1]}; output resistance "
+        basis.append(f"{t.detail} sources its supply: {sup.basis}; output resistance "
                      f"{pr.minimum:g}-{pr.maximum:g} Ω assumed")
-        return sup[0], pr
+        return sup.volts, pr
     if t.kind is TerminalKind.SUPPLY:
         fix = _rail_fix(t.net, "nominal = 5.0")
         if comp is not None and classify(comp) is Kind.BRIDGE:
@@ -132,6 +138,24 @@ def circuit_supply(graph: NetGraph, config: Config, source: Terminal | None, ret
     ac = [rail_params(t.net, config) for t in (source, ret) if t is not None and t.kind is TerminalKind.RAIL]
     reverse = max((r.maximum * SQRT2 for r in ac if r is not None and r.ac), default=0.0)
     return Supply(top[0] - bottom[0], tuple(basis), reverse), top[1] + bottom[1]
+
+
+def rail_of(graph: NetGraph, config: Config, ends: Iterable[Terminal | None]) -> str:
+    """The rail net behind a circuit's first end that has one: a rail or supply net itself, or a
+    driving pin's IC supply (its best-ranked supply pin, voltage known or not); "" when none."""
+    for t in ends:
+        if t is None or t.kind is TerminalKind.GROUND:
+            continue
+        if t.kind in (TerminalKind.RAIL, TerminalKind.SUPPLY):
+            return t.net
+        comp = graph.component(t.pin.ref) if t.kind is TerminalKind.PIN and t.pin else None
+        if comp is not None:
+            sup = ic_supply(comp, config)
+            pins = sorted((p for p in _supply_pins(comp) if p.net and not _is_ground(p.net, config)),
+                          key=lambda p: (_supply_rank(p), p.net))
+            if sup or pins:
+                return sup.net if sup else str(pins[0].net)
+    return ""
 
 
 def cautions(netlist: Netlist, sources: Iterable[Terminal | None], supplies: Iterable[tuple[str, Supply | None]],

@@ -184,3 +184,17 @@ def test_corpus_topologies_match_the_manifest(corpus, name: str, kind: CircuitKi
     cs = recognise(NetGraph(read_netlist(CORPUS / name)), Config())
     found = [c for c in cs if c.kind is kind]
     assert found and (leds is None or all(len(c.leds) == leds for c in found))
+
+
+def test_multiplexed_is_listed_with_its_drivers_rail(tmp_path) -> None:
+    """Not analysed, but the report names the rail its driver runs from (the IC's VDD)."""
+    from ledlint.analyse import analyse
+
+    b = Board("t", "t")
+    b.add("U1", "MCU8", "MCU8", "Package_SO:SOIC-8", MCU)
+    b.resistor("R1", "220", "/P0", "/A")
+    b.led("D1", "red", "/A", "/P1")
+    net = tmp_path / "t.net"
+    net.write_text(b.text(), encoding="utf-8")
+    [a] = analyse(read_netlist(net), Config()).analyses
+    assert a.circuit.kind is CircuitKind.MULTIPLEXED and not a.solved and a.rail == MCU["1"]

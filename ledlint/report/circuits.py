@@ -25,6 +25,7 @@ class CircuitRow:
     ballast: tuple[str, ...]
     supply_net: str | None
     return_net: str | None
+    rail: str | None  # the rail the current comes from (a driver pin's: its IC's supply)
     current: tuple[float, float, float] | None  # per LED: nominal, least, most (A)
     resistor_power_w: float | None
     headroom_v: float | None
@@ -35,6 +36,7 @@ class CircuitRow:
         return {
             "file": self.file, "id": self.id, "kind": self.kind, "leds": list(self.leds),
             "ballast": list(self.ballast), "supply_net": self.supply_net, "return_net": self.return_net,
+            "rail": self.rail,
             "current_a": (None if self.current is None else
                           {"nominal": self.current[0], "min": self.current[1], "max": self.current[2]}),
             "resistor_power_w": self.resistor_power_w, "headroom_v": self.headroom_v,
@@ -59,8 +61,10 @@ def row(path: str, a: Analysis) -> CircuitRow:
     elif not a.solved and a.missing:
         note = "not computed: " + "; ".join(dict.fromkeys(m.name for m in a.missing)) + " unknown"
     headroom = a.headroom_v if a.solved and current is not None else None
+    rail = a.rail or None
     return CircuitRow(path, c.id, c.kind.value, c.leds, ballast, c.source.net if c.source else None,
-                      c.ret.net if c.ret else None, current, power, headroom, a.solved and current is not None, note)
+                      c.ret.net if c.ret else None, rail, current, power, headroom, a.solved and current is not None,
+                      note)
 
 
 def rows(result: RunResult) -> list[CircuitRow]:

@@ -76,7 +76,7 @@ def _circuit_table(rows: list[CircuitRow]) -> Table:
             nom, rng = "—", escape(_short(r.note)) if r.note else "—"
         else:
             nom, rng = _amps(r.current[0]), f"{_amps(r.current[1])} – {_amps(r.current[2])}"
-        table.add_row(r.id, _SHORT.get(r.kind, r.kind), leds, escape(f"{r.supply_net or '?'} → {r.return_net or '?'}"),
+        table.add_row(r.id, _SHORT.get(r.kind, r.kind), leds, escape(f"{r.supply_net or (f'rail {r.rail}' if r.rail else '?')} → {r.return_net or '?'}"),
                       ", ".join(r.ballast) or "—", nom, rng,
                       "—" if r.resistor_power_w is None else quantity(r.resistor_power_w, "W"),
                       "—" if r.headroom_v is None else quantity(r.headroom_v, "V"))
