@@ -78,6 +78,7 @@ class Sharing:
     """How strings in parallel share: Monte Carlo and the hogging corners."""
 
     samples: int
+    seed: int  # of its random draws: a re-run with the same seed and circuit gives the same split
     spread_p99: float  # (max − min)/mean of the per-sample split, 99th percentile
     worst_led: str
     worst_current: float  # A, the most any one LED reaches in any sample or corner
@@ -493,7 +494,7 @@ def _sharing(ec: ECircuit, cor: Corners, flat: list[LedParams], seed: int, equal
     mc = monte_carlo(ec, samples=MC_SAMPLES, seed=seed)
     peak = np.maximum(mc.current.maximum, cor.led_current_max)
     worst = int(np.argmax(peak))
-    return Sharing(MC_SAMPLES, float(mc.spread_summary.p99), flat[worst].id, float(peak[worst]), equal_share)
+    return Sharing(MC_SAMPLES, seed, float(mc.spread_summary.p99), flat[worst].id, float(peak[worst]), equal_share)
 
 
 def _vf_max_at(p: LedParams, current: float, tj: float) -> float:

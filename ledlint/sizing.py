@@ -20,7 +20,6 @@ from ledlint.ratings import chip_for, derated_power
 from ledlint.recognise import CircuitKind
 from ledlint.units import quantity
 
-_SEED = 1  # a fixed Monte Carlo seed: the same hint every run
 
 
 @dataclass(frozen=True)
@@ -136,19 +135,22 @@ def equal_share_resistor(supply_nominal: float, vf_typical: float, current: floa
 
 @dataclass(frozen=True)
 class BalancingFix:
-    resistance: float  # ohm, an E24 value, in series with each string
+    resistance: float  # ohm, an E24 value: each string's whole balancing resistance
     tolerance: float
     spread: float  # the split's 99th-percentile spread with it (the rule's measure)
     drop: float  # V across it at the equal share
     power_max: float  # W in it at the worst sample
+    replaces: bool  # the strings already have balancing resistors: this is the value to raise them to
 
 
-def balancing_for(analysis: Analysis, limit: float, tolerance: float = 0.01,
-                  samples: int = 2000) -> BalancingFix | None:
-    """The smallest E24 balancing resistor per string that brings the Monte Carlo split within `limit`.
+def balancing_for(analysis: Analysis, limit: float, tolerance: float = 0.01) -> BalancingFix | None:
+    """The smallest E24 balancing resistance per string that brings the Monte Carlo split within
+    `limit`.
 
     Searched by bisection over E24 values (the split falls as the resistor grows), each step
-    re-running the analysis's own Monte Carlo with the candidate in every string.
+    re-running the analysis's own Monte Carlo (its samples and seed) with the candidate as every
+    string's resistance: the board with the hint fitted is analysed with exactly these draws, so
+    following the hint clears the rule.
     """
     if len(analysis.engine) != 1 or analysis.sharing is None:
         return None
@@ -156,25 +158,24 @@ def balancing_for(analysis: Analysis, limit: float, tolerance: float = 0.01,
     share = analysis.sharing.equal_share
     if share <= 0:
         return None
-    candidates = _candidates(0.1, 5)
+    present = max(b.r.nominal for b in ec.branches)
+    candidates = [v for v in _candidates(0.1, 5) if v > present * (1 + 1e-9)]
+    target, samples, seed = limit, analysis.sharing.samples, analysis.sharing.seed
 
-    def with_r(r: float) -> Circuit:
-        return replace(ec, branches=tuple(replace(b, r=Range.tolerance(b.r.nominal + r, tolerance))
-                                          for b in ec.branches))
-
-    def spread(r: float):
-        mc = monte_carlo(with_r(r), samples=samples, seed=_SEED)
+    def spread(r: float) -> tuple[float, float]:
+        fitted = replace(ec, branches=tuple(replace(b, r=Range.tolerance(r, tolerance)) for b in ec.branches))
+        mc = monte_carlo(fitted, samples=samples, seed=seed)
         return float(mc.spread_summary.p99), float(mc.solution.branch_resistor_power.max())
 
-    lo, hi = 0, len(candidates) - 1
-    if spread(candidates[hi])[0] > limit:
+    if not candidates or spread(candidates[-1])[0] > target:
         return None
+    lo, hi = 0, len(candidates) - 1
     while lo < hi:
         mid = (lo + hi) // 2
-        if spread(candidates[mid])[0] <= limit:
+        if spread(candidates[mid])[0] <= target:
             hi = mid
         else:
             lo = mid + 1
     r = candidates[lo]
     got, power = spread(r)
-    return BalancingFix(r, tolerance, got, r * share, power)
+    return BalancingFix(r, tolerance, got, r * share, power, present > 0)

@@ -110,9 +110,11 @@ def _hint(ctx: RuleContext, a: Analysis, limit: float) -> str:
     factor = ctx.option_of("resistor-overload", "design_factor", 0.5)
     chip = chip_for(fix.power_max / factor)
     size = f", rated at least {quantity(fix.power_max / factor, 'W')} ({chip[0]} or larger)" if chip else ""
-    return text + (f", or put {quantity(fix.resistance, 'Ω')} {fix.tolerance * 100:g} % (E24) in series with each string: "
-                   f"it drops {quantity(fix.drop, 'V')} and brings the split to {quantity(fix.spread, '%')} (Monte Carlo, "
-                   f"as above){size}")
+    part = f"{quantity(fix.resistance, 'Ω')} {fix.tolerance * 100:g} % (E24)"
+    how = (f"raise each string's balancing resistance to {part}" if fix.replaces else
+           f"put {part} in series with each string")
+    return text + (f", or {how}: it drops {quantity(fix.drop, 'V')} and brings the split to "
+                   f"{quantity(fix.spread, '%')} (Monte Carlo, as above){size}")
 
 
 RULE = Rule(

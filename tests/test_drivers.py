@@ -498,3 +498,11 @@ def test_hinted_balancing_resistor_balances(tmp_path: Path) -> None:
     assert hinted, f.hint
     # Fitted as the hint says, a 1 % part of that value.
     assert not of_rule(run(balanced_board(hinted.group(1) + " 1%"), tmp_path), "driver-parallel-strings")
+
+
+def test_too_small_balancing_resistor_gets_the_value_to_raise_it_to(tmp_path: Path) -> None:
+    """With 1 Ω balancing resistors already fitted the hint names the whole value, not an extra."""
+    f = only(run(balanced_board("1R 1%"), tmp_path), "driver-parallel-strings")
+    hinted = re.search(r"raise each string's balancing resistance to ([0-9.]+) Ω 1 % \(E24\)", f.hint)
+    assert hinted, f.hint
+    assert not of_rule(run(balanced_board(hinted.group(1) + " 1%"), tmp_path), "driver-parallel-strings")
