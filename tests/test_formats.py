@@ -10,7 +10,7 @@ from pathlib import Path
 import pytest
 
 from conftest import workshop_panel
-from ledlint.report import github, json_doc, markdown
+from ledlint.report import github, json_doc, markdown, text
 from ledlint.run import check
 
 
@@ -21,6 +21,20 @@ def panel_run(panel_files):
 
 def test_golden_json(fixed_run, golden) -> None:
     golden("check.json", json_doc.render(fixed_run))
+
+
+def test_golden_text(fixed_run, golden) -> None:
+    golden("check.txt", text.render(fixed_run, width=100))
+
+
+def test_golden_circuit_table(golden, monkeypatch: pytest.MonkeyPatch) -> None:
+    """The --circuits table of a real sample board (its figures are the engine's: regenerate
+    this file when the engine changes on purpose)."""
+    from paths import REPO
+
+    monkeypatch.chdir(REPO)
+    result = check(["sample_boards/work-light.net"])
+    golden("circuits.txt", text.render(result, circuits=True, width=100))
 
 
 def test_golden_github(fixed_run, golden) -> None:

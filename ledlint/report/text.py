@@ -143,4 +143,4 @@ def render(result: RunResult, *, circuits: bool = False, color: bool = False, wi
     analysed = sum(a.solved for fr in result.files for a in fr.board.analyses)
     console.print(f"{len(result.files)} file(s) · {total} circuit(s), {analysed} analysed · "
                   f"{counts['error']} error(s) · {counts['warning']} warning(s) · {counts['info']} info")
-    return buf.getvalue()
+    return "".join(line.rstrip() + "\n" for line in buf.getvalue().splitlines())  # no padding at line ends
