@@ -138,10 +138,10 @@ def _reference_voltage(ref: Reference, graph: NetGraph, config: Config, rail: Ra
 def _divider(ref: Reference, graph: NetGraph, config: Config) -> tuple[Range, Range] | None:
     values = []
     for r in ref.refs[:2]:
-        got = _resistance(graph, config, (r,))
-        if got is None or got[1]:
+        value, miss = _resistance(graph, config, (r,))
+        if miss:
             return None
-        values.append(got[0])
+        values.append(value)
     if len(values) != 2:
         return None
     # The resistor that reaches the rail is the top one.
@@ -161,7 +161,8 @@ def driver_current(driver: DriverIC, graph: NetGraph,
                    config: Config) -> tuple[SetCurrent | None, list[Missing], list[str]]:
     """A described driver's set-point; what to describe when it is not."""
     notes: list[str] = []
-    keys = "driver, vref (and vref_tolerance) or current, current_max, dropout, vin_min, vin_max, vout_max"
+    keys = ("driver, vref (and vref_tolerance) or current, sense_pins, output_pin, current_max, dropout, vin_min, "
+            "vin_max, vout_max")
     kind_text = _setting(driver, "driver")
     if kind_text is None:
         return None, [Missing("driver description", f"{driver.ref} looks like a constant-current driver but is "
@@ -204,10 +205,9 @@ def driver_current(driver: DriverIC, graph: NetGraph,
     if not driver.sense:
         return None, [Missing("sense resistor", f"{driver.ref}: no resistor found on its sense pin",
                               "name the sense pins: sense_pins = \"CS\"")], notes
-    got = _resistance(graph, config, driver.sense[:1])
-    if got is None or got[1]:
-        return None, (got[1] if got else []), notes
-    rs = got[0]
+    rs, miss = _resistance(graph, config, driver.sense[:1])
+    if miss:
+        return None, miss, notes
     current = Range(v.nominal / rs.nominal, v.minimum / rs.maximum, v.maximum / rs.minimum)
     return SetCurrent(current, f"{driver.ref} V_ref {v.nominal * 1000:g} mV over {driver.sense[0]} = {rs.nominal:g} Ω",
                       ((driver.sense[0], rs),), v, drop, kind, limits), [], notes
