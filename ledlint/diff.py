@@ -138,8 +138,8 @@ def _leds(c: LedCircuit | None) -> tuple[str, ...]:
 def readings(a: Analysis) -> dict[tuple[Quantity, str], Reading]:
     """The figures a reviewer follows for one circuit, keyed by what they measure."""
     out: dict[tuple[Quantity, str], Reading] = {}
-    if not a.solved:
-        return out
+    if not a.solved or a.reversed:
+        return out  # a reversed circuit carries only leakage: no figures to follow
     if not a.circuit.blocked:
         for led in a.leds:
             out[(Quantity.CURRENT, led.id)] = Reading(led.current.nominal, led.current.minimum, led.current.maximum)
