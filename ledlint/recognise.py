@@ -467,8 +467,8 @@ class _Recogniser:
                 t = odd[0]
                 side = "anode" if t is src else "cathode"
                 if t.kind is TerminalKind.OPEN:
-                    self.unrecognised(ids, f"the {side} side ends at net {t.net}, and nothing else is connected "
-                                           "to it", branches=(Branch(seg.elements),),
+                    self.unrecognised(ids, f"the {side} side ends at net {t.net}, and {t.detail}",
+                                      branches=(Branch(seg.elements),),
                                       source=src, ret=ret, never_lights=True)
                     continue
                 where = ("goes off the board through " + t.detail if t.kind is TerminalKind.CONNECTOR else

@@ -126,7 +126,7 @@ def _describe_non_sexpr(text: str) -> str:
         return "this looks like JSON, not a KiCad netlist (expected '(export …)')"
     if text.startswith("<"):
         return "this looks like XML; export the KiCad netlist in its s-expression format (.net)"
-    if text.startswith("#") and "netlist" in text[:200].lower():
+    if re.match(r"#\s*EESchema\s+Netlist", text, re.IGNORECASE):
         return "this is a pre-2013 legacy KiCad netlist; re-export it from a current KiCad as .net"
     token = re.match(r"[^ \t\r\n\f\v()]*", text).group(0) or text[:1]  # type: ignore[union-attr]  # * always matches
     return f"expected '(' to open a KiCad netlist, found {token[:20]!r}"

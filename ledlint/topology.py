@@ -281,7 +281,11 @@ class Topology:
         if not others and len(ends) >= 3:
             return Terminal(net, TerminalKind.NODE)
         if not others and len(ends) <= 1:
-            return Terminal(net, TerminalKind.OPEN, detail="nothing else is connected to it")
+            unfitted = sorted({p.ref for p in self.graph.pins_on(net)
+                               if (c := self.graph.component(p.ref)) is not None and c.dnp})
+            detail = (f"only {', '.join(unfitted)}, marked do-not-populate, is connected to it" if unfitted else
+                      "nothing else is connected to it")
+            return Terminal(net, TerminalKind.OPEN, detail=detail)
         return Terminal(net, TerminalKind.OTHER, others[0] if others else None, self.holding(net))
 
     def holding(self, net: str, skip: Pin | None = None, most: int = 4) -> str:

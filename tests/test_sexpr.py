@@ -92,6 +92,7 @@ def _error(text: str) -> InputError:
         ('{"schema": 1}', 1, 1, "JSON"),
         ("<?xml version='1.0'?>", 1, 1, "XML"),
         ("# EESchema Netlist Version 1.1", 1, 1, "legacy"),
+        ("# A README, not a netlist\n", 1, 1, "expected '('"),
         ("hello", 1, 1, "expected '('"),
         ("(a) (b)", 1, 5, "after the netlist"),
     ],

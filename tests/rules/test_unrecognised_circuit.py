@@ -47,3 +47,12 @@ def test_fixed_twin_returns_on_the_board(tmp_path: Path) -> None:
     result = run_board(bezel_led(on_board=True), tmp_path)
     assert of_rule(result, "unrecognised-circuit") == []
     assert [a.circuit.kind.value for a in result.board.analyses] == ["series-string"]
+
+
+def test_open_end_names_the_unfitted_part(tmp_path: Path) -> None:
+    """The ballast is marked do-not-populate: the LED can never light, and the reason says why."""
+    b = Board("dnp", "unrecognised fixture")
+    b.resistor("R1", "DNP", "+5V", "/A")
+    b.led("D1", "red", "/A", "GND")
+    f = only(run_board(b, tmp_path), "unrecognised-circuit")
+    assert f.severity is Severity.WARNING and "only R1, marked do-not-populate" in f.message
