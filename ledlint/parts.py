@@ -157,8 +157,8 @@ def classify(component: Component) -> Kind:
         return Kind.LED_ADDRESSABLE
     if len(component.pins) == 2 and REGULATOR_WORDS.search(text):
         return Kind.REGULATOR
-    if _WORD_LED.search(text) and led_dies(component):
-        return Kind.LED
+    if _WORD_LED.search(text) and (led_dies(component) or prefix in ("D", "LED") and len(component.pins) <= 2):
+        return Kind.LED  # with no dies to find: pins missing from the netlist (the recogniser says so)
     names = {_pin_name(p) for p in component.pins}
     transistor = _transistor_kind(component, text)
     if transistor is not None:

@@ -491,7 +491,12 @@ class _Recogniser:
                     self.unrecognised([i], f"{i} is in a connection the tool does not follow")
         for comp in self.graph.netlist.components:
             if classify(comp) is Kind.LED and not led_dies(comp):
-                self.unrecognised([comp.ref], f"{comp.ref}'s pins do not read as anode and cathode")
+                if len(comp.pins) < 2:  # the other pin is on no net, and no library part lists it
+                    what = "only one pin of it is" if comp.pins else "none of its pins is"
+                    self.unrecognised([comp.ref], f"{what} in the netlist: the others are on no net",
+                                      never_lights=True)
+                else:
+                    self.unrecognised([comp.ref], f"{comp.ref}'s pins do not read as anode and cathode")
 
 
 def recognise(graph: NetGraph, config: Config) -> tuple[LedCircuit, ...]:

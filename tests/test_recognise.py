@@ -198,3 +198,11 @@ def test_multiplexed_is_listed_with_its_drivers_rail(tmp_path) -> None:
     net.write_text(b.text(), encoding="utf-8")
     [a] = analyse(read_netlist(net), Config()).analyses
     assert a.circuit.kind is CircuitKind.MULTIPLEXED and not a.solved and a.rail == MCU["1"]
+
+
+def test_led_with_one_pin_in_the_netlist_is_not_silently_skipped() -> None:
+    """No library parts and the cathode on no net (KiCad 5 leaves such pins out)."""
+    text = ('(export (version "D") (components (comp (ref "D1") (value "LED") (libsource (lib "Device") '
+            '(part "LED")))) (nets (net (code "1") (name "/A") (node (ref "D1") (pin "2")))))')
+    [c] = recognise(NetGraph(parse_netlist(text, "one-pin.net")), Config())
+    assert c.kind is CircuitKind.UNRECOGNISED and c.never_lights and "only one pin" in c.reason
