@@ -35,7 +35,13 @@ class Value:
     relation: str = ""  # how value stands to limit: ">", "<", ">=", "<="
 
     def text(self) -> str:
-        return quantity(self.value, self.unit)
+        """Three figures; more when three would print the value and its limit alike ("125 mW,
+        above 125 mW"), so a message never contradicts itself."""
+        digits = 3
+        if self.limit is not None and self.value != self.limit:
+            while digits < 7 and quantity(self.value, self.unit, digits) == quantity(self.limit, self.unit, digits):
+                digits += 1
+        return quantity(self.value, self.unit, digits)
 
 
 class _Formatter(string.Formatter):

@@ -348,19 +348,19 @@ def parse_temperature(text: str) -> Quantity | None:
     return None if number is None else Quantity(_signed(match.group("sign"), number), text.strip())
 
 
-_PREFIXES = ((1e9, "G"), (1e6, "M"), (1e3, "k"), (1.0, ""), (1e-3, "m"), (1e-6, "µ"), (1e-9, "n"))
+_PREFIXES = ((1e9, "G"), (1e6, "M"), (1e3, "k"), (1.0, ""), (1e-3, "m"), (1e-6, "µ"), (1e-9, "n"), (1e-12, "p"))
 
 
-def quantity(value: float, unit: str) -> str:
+def quantity(value: float, unit: str, digits: int = 3) -> str:
     """A value with an engineering prefix and three significant figures: 25.8 mA, 4.7 kΩ, 0.42 W."""
     if unit == "%":
-        return f"{value * 100:.3g} %"
+        return f"{value * 100:.{digits}g} %"
     if unit in ("°C", "K/W", ""):
-        return f"{value:.3g}{' ' + unit if unit else ''}"
+        return f"{value:.{digits}g}{' ' + unit if unit else ''}"
     if value == 0 or not math.isfinite(value):
         return f"{value:g} {unit}"
     mag = abs(value)
     for scale, prefix in _PREFIXES:
-        if mag >= scale * 0.9995:
-            return f"{value / scale:.3g} {prefix}{unit}"
-    return f"{value:.3g} {unit}"
+        if mag >= scale * (1 - 0.5 * 10.0 ** -digits):
+            return f"{value / scale:.{digits}g} {prefix}{unit}"
+    return f"{value:.{digits}g} {unit}"
