@@ -88,8 +88,10 @@ def ballast_hint(ctx: RuleContext, a: Analysis, fallback: str) -> str:
         return fallback
     size = f"{fix.chip} or larger" if fix.chip else "a power resistor"
     unit = "LED" if all(len(b.leds) == 1 for b in a.circuit.branches) else "string"
+    ballast = [e.ref for e in a.circuit.resistors]
     what = (f"give each {unit} its own {quantity(fix.resistance, 'Ω')} resistor (E24) instead of the shared one"
-            if fix.per_string else f"use {quantity(fix.resistance, 'Ω')} (E24)")
+            if fix.per_string else f"use {quantity(fix.resistance, 'Ω')} (E24)" + (
+                f" in place of {join(ballast)} together" if len(ballast) > 1 else ""))
     text = (f"{what}: worst case {quantity(fix.current_max, 'A')} (limit {quantity(target, 'A')}), "
             f"{quantity(fix.power_max, 'W')} in {'each' if fix.per_string else 'it'}, so at least "
             f"{quantity(fix.rating, 'W')} rated ({size})")
