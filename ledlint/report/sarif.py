@@ -25,6 +25,11 @@ LEVELS = {Severity.ERROR: "error", Severity.WARNING: "warning", Severity.INFO: "
 _PROPERTIES = ("severity", "values", "assumed", "hint", "circuit", "sheet")
 
 
+
+def _sentence(text: str) -> str:
+    """Text ending as a sentence, so the fix that follows reads as the next one."""
+    return text if text.endswith(".") else text + "."
+
 def artifact_uri(path: str | Path, start: str | Path | None = None) -> str:
     """A relative URI reference for a netlist (RFC 3986: spaces and the like percent-encoded)."""
     return quote(posix_path(path, start), safe="/")
@@ -99,7 +104,7 @@ def _result(f: Finding, fr: FileResult, index: dict[str, int], uri: str, rule_id
     out: dict[str, Any] = {
         "ruleId": f.rule,
         "level": LEVELS[f.severity],
-        "message": {"text": f.message + (f" Fix: {f.hint}" if f.hint else "")},
+        "message": {"text": _sentence(f.message) + (f" Fix: {_sentence(f.hint)}" if f.hint else "")},
         "locations": [{"physicalLocation": _physical(uri, f.line), "logicalLocations": _logical(f)}],
         "partialFingerprints": {FINGERPRINT_KEY: f.fingerprint},
         "properties": {k: props[k] for k in _PROPERTIES},
