@@ -104,7 +104,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                     Value("short", -a.headroom_v, "V", 0.0, ">"), Value("sense", setc.sense_voltage.maximum, "V"),
                     Value("dropout", setc.dropout.maximum, "V")),
             out=out, who=(f"each of its {len(c.branches)} strings (such as {ids([e.id for e in c.branches[0].leds])})"
-                          if len(c.branches) > 1 else ids(c.leds)),
+                          if len(c.branches) > 1 else f"the string {ids(c.leds)}"),
             assumed=assumed, hint="fewer LEDs per string, a higher input, or a boost driver")
 
 

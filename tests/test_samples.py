@@ -58,8 +58,6 @@ DESIGNED = {
     },
 }
 BOARDS = list(DESIGNED)
-# The reversed DOOR lamp also draws a supply-headroom warning with a negative supply: a bug in
-# that rule (tests/rules/test_supply_headroom.py), not part of the design.
 
 
 def findings(make) -> set[tuple[str, str, tuple[str, ...]]]:
