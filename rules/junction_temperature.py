@@ -26,7 +26,7 @@ Formula
 
 Source
     Tj = Ta + θ·P_d, the junction-temperature relation of LED and power-device textbooks; LED
-    junction ratings of 110-150 °C (LED datasheets, common practice).
+    junction ratings of 110-150 °C (a fact of the trade, common practice).
 """
 
 from __future__ import annotations

@@ -24,9 +24,9 @@ Formula
     sinking, at the worst corner, with the pin's output resistance R_pin (40-65 Ω assumed).
 
 Source
-    Microcontroller datasheets rate I/O pins at 8-25 mA with absolute maxima of 20-40 mA, and
-    give V_OH / V_OL at 20 mA, from which the 40-65 Ω output resistance follows (common
-    practice; a maker's own part may differ, so give `pin_current_max`).
+    Common practice: controller I/O pins are typically rated 8-25 mA, with absolute maxima of
+    20-40 mA, and an output is modelled to first order as its supply behind 40-65 Ω. A given
+    part may differ, so give it `pin_current_max`.
 """
 
 from __future__ import annotations

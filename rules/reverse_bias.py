@@ -26,8 +26,8 @@ Formula
     AC, V_reverse = √2 × V_rms,max; an antiparallel diode limits it to that diode's forward drop.
 
 Source
-    LED datasheets give the reverse voltage (usually 5 V) only as the leakage test condition
-    and state that the device "is not designed for reverse operation" (common practice).
+    A fact of the trade: an indicator LED's reverse rating (usually 5 V) is only the condition
+    its leakage is tested at, and LEDs are not made for reverse operation (common practice).
 """
 
 from __future__ import annotations

@@ -325,8 +325,8 @@ def boost_board(leds: int, output_net: str = "/LED_A") -> Board:
     return b
 
 
-# White LED: 3.0 V typical, 3.4 V maximum (field-facts §5a, a distributor's white LED
-# datasheet); the least taken as 10 % under typical, 2.7 V (a design choice of the table).
+# White LED: 3.0 V typical, 3.4 V maximum (field-facts §5a, the trade's typical white LED); the
+# least taken as 10 % under typical, 2.7 V (a design choice of the table).
 WHITE_MAX, WHITE_MIN = 3.4, 2.7
 
 

@@ -10,8 +10,8 @@ from rulecheck import current_bounds, line_of, of_rule, only, run_board, value
 from ledlint.findings import Severity
 
 SOIC8 = "Package_SO:SOIC-8_3.9x4.9mm_P1.27mm"
-# A GPIO pin modelled as its supply behind 40-65 Ω (field-facts §9, derived there from published
-# output levels at 20 mA of two microcontroller families); the least at the worst corner.
+# A GPIO pin modelled as its supply behind 40-65 Ω, the usual first-order output model (common
+# practice, field-facts §9); the least at the worst corner.
 PIN_R_MIN = 40.0
 
 
