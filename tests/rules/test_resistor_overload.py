@@ -40,6 +40,7 @@ def test_above_the_full_rating_is_an_error(tmp_path: Path) -> None:
     f = only(run_board(board, tmp_path), "resistor-overload")
     assert f.severity is Severity.ERROR
     assert f.refs == ("R1",) and f.line == line_of(board, "R1")
+    assert f.nets == ("+5V", "GND")  # the circuit's supply and return
     lo, hi = power_bounds()
     power = value(f, "power")
     assert lo <= power.value <= hi
