@@ -98,8 +98,8 @@ def _candidates(start: float, decades: int) -> list[float]:
 def _size(ec: Circuit, limit: float) -> BallastFix | None:
     """Smallest E24 ballast keeping every LED at or under `limit`; memoised, as boards repeat circuits.
 
-    The worst current falls as the ballast grows, so the E24 values are bisected: a handful of
-    solves, each over the current-raising corners only.
+    One vectorised solve scans every E24 candidate over the current-raising corners; the worst
+    current falls as the ballast grows, so the first candidate under the limit is the smallest.
     """
     tol = _tolerance(ec.r_series)
     assert ec.supply is not None
@@ -107,19 +107,11 @@ def _size(ec: Circuit, limit: float) -> BallastFix | None:
     estimate = max((ec.supply.maximum - string) / limit, ec.r_series.nominal, 1.0)
     candidates = _candidates(estimate * 0.5, 3)
 
-    def peak(r: float) -> float:
-        return float(ballast_scan(ec, [r], 1.0 - tol, 1.0 + tol)[0][0])
-
-    lo, hi = 0, len(candidates) - 1
-    if peak(candidates[hi]) > limit:
+    peaks = ballast_scan(ec, candidates, 1.0 - tol, 1.0 + tol)[0]
+    under = np.flatnonzero(peaks <= limit)
+    if not len(under):
         return None
-    while lo < hi:
-        mid = (lo + hi) // 2
-        if peak(candidates[mid]) <= limit:
-            hi = mid
-        else:
-            lo = mid + 1
-    r = candidates[lo]
+    r = candidates[int(under[0])]
     cor = corners(replace(ec, r_series=Range.tolerance(r, tol)))
     nominal = np.maximum(cor.nominal.led_current, 1e-15)
     ratio = float((cor.min_current.led_current / nominal).min())
