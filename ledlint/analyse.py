@@ -9,6 +9,7 @@ headroom, reverse voltage, electro-thermal loop gain. Knows nothing of rules.
 from __future__ import annotations
 
 import zlib
+from functools import lru_cache
 from dataclasses import KW_ONLY, dataclass, field, replace
 from enum import Enum
 from ledlint.frozen import FrozenMap
@@ -24,7 +25,7 @@ from ledlint.batch import Job, solve_all
 from ledlint.engine import Corners, LedSpec, ModelError, Range, Solution, fit_points, forward_voltage, monte_carlo
 from ledlint.graph import NetGraph
 from ledlint.model import Component, Netlist, Pin
-from ledlint.params import (LedParams, Missing, Param, ResistorParams, led_params, pin_limit,
+from ledlint.params import (LedParams, known, Missing, Param, ResistorParams, led_params, pin_limit,
                             rail_params, resistor_params)
 from ledlint.parts import Kind
 from ledlint.recognise import CircuitKind, LedCircuit, ReferenceKind, recognise
@@ -498,8 +499,12 @@ def _sharing(ec: ECircuit, cor: Corners, flat: list[LedParams], seed: int, equal
 
 
 def _vf_max_at(p: LedParams, current: float, tj: float) -> float:
-    spec = LedSpec(Range.fixed(p.vf_max.value), p.i_test.value, p.n, p.r_s, p.tc.value)  # type: ignore[union-attr]
-    return float(forward_voltage(spec, max(current, 1e-6), tj))
+    return _forward(known(p.vf_max), p.i_test.value, p.n, p.r_s, p.tc.value, max(current, 1e-6), tj)
+
+
+@lru_cache(maxsize=4096)  # boards repeat the same LED at the same current many times over
+def _forward(vf: float, i_test: float, n: float, r_s: float, tc: float, current: float, tj: float) -> float:
+    return float(forward_voltage(LedSpec(Range.fixed(vf), i_test, n, r_s, tc), current, tj))
 
 
 def _worst_per_ref(rs: list[ResistorResult]) -> list[ResistorResult]:

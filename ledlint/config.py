@@ -88,6 +88,8 @@ class Config:
         A reference beats a value, a value beats a symbol name.
         """
         out: dict[str, tuple[str, str]] = {}
+        if not (self.symbols or self.values or self.refs):
+            return out
         for table, key, label in ((self.symbols, f"{lib}:{part}", "symbols"), (self.symbols, part, "symbols"),
                                   (self.values, value, "values"), (self.refs, ref, "refs")):
             for k, v in table.get(key, {}).items():

@@ -148,8 +148,25 @@ def _transistor_kind(component: Component, text: str) -> Kind | None:
         else None
 
 
+# Kinds already worked out, by component identity (the entry keeps the component, so an id is
+# never reused while its entry stands): every stage asks, and the answer never changes.
+_KINDS: dict[int, tuple[Component, Kind]] = {}
+_KINDS_MAX = 250_000
+
+
 def classify(component: Component) -> Kind:
     """The component's kind (see Kind)."""
+    hit = _KINDS.get(id(component))
+    if hit is not None and hit[0] is component:
+        return hit[1]
+    if len(_KINDS) >= _KINDS_MAX:
+        _KINDS.clear()
+    kind = _classify(component)
+    _KINDS[id(component)] = (component, kind)
+    return kind
+
+
+def _classify(component: Component) -> Kind:
     text = _text(component)
     lower = text.lower()
     prefix = re.sub(r"[^A-Za-z].*", "", component.ref).upper()  # the letters before the number

@@ -5,6 +5,7 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass
 from enum import Enum
+from functools import lru_cache
 
 from ledlint.units import parse_voltage
 
@@ -86,6 +87,7 @@ def _words(name: str) -> list[str]:
     return [word for word in name.upper().split("_") if word]
 
 
+@lru_cache(maxsize=16384)  # a board asks about the same few nets for every circuit on them
 def rail_from_net_name(name: str) -> Rail | None:
     """Return the rail a net name states ("+3V3", "GND", "24VAC", "VBUS"), or None.
 
