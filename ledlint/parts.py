@@ -10,6 +10,7 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass
 from enum import Enum
+from typing import Iterable
 
 from ledlint.model import Component, Pin
 
@@ -152,6 +153,11 @@ def _transistor_kind(component: Component, text: str) -> Kind | None:
 # never reused while its entry stands): every stage asks, and the answer never changes.
 _KINDS: dict[int, tuple[Component, Kind]] = {}
 _KINDS_MAX = 250_000
+
+
+def led_parts(components: Iterable[Component]) -> int:
+    """How many LED parts (plain or addressable) there are: a package, however many dies it holds."""
+    return sum(classify(c) in (Kind.LED, Kind.LED_ADDRESSABLE) for c in components)
 
 
 def classify(component: Component) -> Kind:

@@ -114,3 +114,15 @@ def test_many_files_folder_and_glob(tmp_path: Path, monkeypatch: pytest.MonkeyPa
     summary = subprocess.run([sys.executable, "-m", "ledlint", "check", "hw", "--format", "github"],
                              capture_output=True, text=True).stdout.splitlines()[-1]
     assert summary.startswith("ledlint: 10 file(s) · ")
+
+
+def test_led_counts_are_parts_with_dies_added(monkeypatch: pytest.MonkeyPatch) -> None:
+    """An RGB package is one part holding three dies (fact of the trade); the text header and the
+    JSON inventory count parts alike, and the text adds the dies when a package holds several."""
+    from paths import REPO
+
+    monkeypatch.chdir(REPO)
+    result = check(["sample_boards/rgb-status.net"])
+    doc = json.loads(json_doc.render(result))
+    assert doc["files"][0]["leds"] == 4  # D1 (RGB), D2, D3, D4 in the board's netlist
+    assert "  4 LED(s) (6 dies) in 4 circuit(s)" in text.render(result, width=100)

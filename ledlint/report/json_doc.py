@@ -7,7 +7,7 @@ from typing import Any
 
 from ledlint import __version__
 from ledlint.findings import Finding
-from ledlint.parts import Kind, classify
+from ledlint.parts import led_parts
 from ledlint.report.circuits import rows
 from ledlint.run import RunResult
 
@@ -34,7 +34,7 @@ def document(result: RunResult) -> dict[str, Any]:
         files.append({
             "path": r.path, "version": n.version, "tool": n.tool, "components": len(n.components),
             "nets": len(n.nets),
-            "leds": sum(classify(c) in (Kind.LED, Kind.LED_ADDRESSABLE) for c in n.components),
+            "leds": led_parts(n.components),
             "circuits": len(r.board.circuits), "config": r.config_path or None,
             "notes": [{"line": x.line, "column": x.column, "message": x.message} for x in n.notes],
             "cautions": list(r.board.cautions),

@@ -10,6 +10,7 @@ from rich.markup import escape
 from rich.table import Table
 
 from ledlint.findings import Finding, Severity, quantity
+from ledlint.parts import led_parts
 from ledlint.recognise import CircuitKind
 from ledlint.report.circuits import CircuitRow, row
 from ledlint.run import FileResult, RunResult
@@ -109,8 +110,9 @@ def _print_wide(console: Console, table: Table) -> None:
 
 def _file(console: Console, fr: FileResult, circuits: bool) -> None:
     n = fr.netlist
-    leds = sum(len(c.leds) for c in fr.board.circuits)
-    console.print(f"[bold]{escape(fr.path)}[/]  {leds} LED(s) in {len(fr.board.circuits)} circuit(s), "
+    parts, dies = led_parts(n.components), sum(len(c.leds) for c in fr.board.circuits)
+    leds = f"{parts} LED(s)" + (f" ({dies} dies)" if dies > parts else "")
+    console.print(f"[bold]{escape(fr.path)}[/]  {leds} in {len(fr.board.circuits)} circuit(s), "
                   f"{_coverage(fr)} · {escape(n.tool or 'unknown tool')}", soft_wrap=True)
     for note in n.notes:
         console.print(f"  [dim]reader note, line {note.line}: {escape(note.message)}[/]")
