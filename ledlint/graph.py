@@ -71,7 +71,10 @@ class NetGraph:
         part = part_node(ref)
         if part not in self.g or self.g.degree(part) != 2:
             return None
-        for node in self.g.neighbors(part):
+        pins = list(self.g.neighbors(part))
+        if number not in (node[2] for node in pins):
+            return None  # not a pin of this part: there is no "other side"
+        for node in pins:
             if node[2] != number:
                 return self.g.nodes[node]["pin"].net
         return None

@@ -14,6 +14,7 @@ def test_queries_on_the_sample_board() -> None:
     assert g.degree("Net-(D1-A)") == 2 and g.degree("no-such-net") == 0
     assert g.across("R1", "2") == "+5V" and g.across("D1", "2") == "GND"
     assert g.across("U1", "1") is None  # not a two-terminal part
+    assert g.across("R1", "3") is None  # no such pin: no other side either
     assert [c.ref for c in g.parts_on("GND")] == ["C1", "D1", "D2", "D3", "J1", "U1"]
 
 
