@@ -30,7 +30,7 @@ from pathlib import Path
 from typing import Any
 
 from ledlint import __version__
-from ledlint.errors import LedlintError
+from ledlint.errors import LedlintError, failure_reason
 from ledlint.findings import Finding
 from ledlint.report.markdown import posix_path
 from ledlint.run import FileResult, RunResult
@@ -146,7 +146,7 @@ def load(path: str | Path) -> Baseline:
     try:
         text = Path(path).read_text(encoding="utf-8")
     except (OSError, UnicodeDecodeError) as exc:
-        raise LedlintError(f"cannot read the baseline: {getattr(exc, 'strerror', None) or exc}", str(path)) from None
+        raise LedlintError(f"cannot read the baseline: {failure_reason(exc)}", str(path)) from None
     return parse(text, str(path))
 
 

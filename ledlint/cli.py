@@ -14,7 +14,7 @@ from types import ModuleType
 from typing import Callable, Sequence
 
 from ledlint import __version__
-from ledlint.errors import LedlintError
+from ledlint.errors import LedlintError, failure_reason
 from ledlint.registry import rule_doc
 from ledlint.run import FAIL_LEVELS, RunResult, check, load_rules
 
@@ -100,14 +100,14 @@ def write_whole(out: str, destination: str | None) -> None:
     try:
         fd, tmp = tempfile.mkstemp(dir=target.parent if str(target.parent) else ".", prefix=".ledlint-")
     except OSError as exc:
-        raise LedlintError(f"cannot write the report here: {exc.strerror or exc}", destination) from None
+        raise LedlintError(f"cannot write the report here: {failure_reason(exc)}", destination) from None
     try:
         with os.fdopen(fd, "w", encoding="utf-8") as fh:
             fh.write(out)
         os.replace(tmp, target)
     except OSError as exc:
         Path(tmp).unlink(missing_ok=True)
-        raise LedlintError(f"cannot write the report: {exc.strerror or exc}", destination) from None
+        raise LedlintError(f"cannot write the report: {failure_reason(exc)}", destination) from None
     except BaseException:
         Path(tmp).unlink(missing_ok=True)
         raise

@@ -15,7 +15,7 @@ from pathlib import Path
 from ledlint.frozen import FrozenMap
 from typing import Any, Mapping
 
-from ledlint.errors import ConfigError
+from ledlint.errors import ConfigError, failure_reason
 from ledlint.units import (Quantity, parse_current, parse_power, parse_temperature, parse_thermal_resistance,
                            parse_tolerance, parse_vf, parse_voltage)
 
@@ -288,7 +288,7 @@ def load(path: str | Path) -> Config:
     except FileNotFoundError:
         raise ConfigError("no such configuration file", name) from None
     except (OSError, UnicodeDecodeError) as exc:
-        raise ConfigError(f"cannot read the configuration: {exc}", name) from None
+        raise ConfigError(f"cannot read the configuration: {failure_reason(exc)}", name) from None
     except tomllib.TOMLDecodeError as exc:
         m = re.search(r"\(at line (\d+), column (\d+)\)", str(exc))
         line, col = (int(m.group(1)), int(m.group(2))) if m else (0, 0)

@@ -26,3 +26,12 @@ class InputError(LedlintError):
 
 class ConfigError(LedlintError):
     """A configuration file or option that is malformed or names something unknown."""
+
+
+def failure_reason(exc: Exception) -> str:
+    """Why a file could not be read or written, in words, without the path the message names."""
+    if isinstance(exc, UnicodeDecodeError):
+        return f"not UTF-8 text (byte 0x{exc.object[exc.start]:02x} at offset {exc.start})"
+    if isinstance(exc, OSError) and exc.strerror:
+        return exc.strerror
+    return str(exc)

@@ -7,7 +7,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from ledlint.frozen import FrozenMap
 
-from ledlint.errors import InputError
+from ledlint.errors import InputError, failure_reason
 from ledlint.model import Component, Net, Netlist, Note, Pin, PinType, Sheet
 from ledlint.sexpr import Locator, SList, parse
 
@@ -44,7 +44,7 @@ def read_netlist(path: str | Path) -> Netlist:
     except IsADirectoryError:
         raise InputError("is a folder, not a netlist file", name) from None
     except OSError as exc:
-        raise InputError(f"cannot read: {exc.strerror or exc}", name) from None
+        raise InputError(f"cannot read: {failure_reason(exc)}", name) from None
     text, notes = decode(data, name)
     return parse_netlist(text, name, notes)
 
