@@ -2,7 +2,7 @@
 
 KiCad's own lexer rules (kicad-netlist-format.md §1.1, §2.1, §2.2): an atom is either a
 quoted string with backslash escapes or a bare run of anything but ASCII whitespace and
-parentheses, taken literally (v5 writes Windows paths and `/LED[0]` bare). Every atom stays
+parentheses, taken literally (v5 writes backslash paths and `/LED[0]` bare). Every atom stays
 text: nothing becomes a number, a boolean or an empty list, and `;` or `#` start nothing.
 The scanner is iterative with an explicit stack, so nesting depth cannot exhaust the
 interpreter's recursion limit; depth is capped at MAX_DEPTH with a clean error instead.

@@ -29,8 +29,8 @@ Formula
     Vf max, highest supply, lowest R).
 
 Source
-    Current hogging of parallel LEDs: LED makers' application briefs, and LEDs Magazine, "LED
-    Design Forum: Avoiding thermal runaway when driving multiple LED strings" (2009). The
+    Current hogging of parallel LEDs: LEDs Magazine, "LED Design Forum: Avoiding thermal
+    runaway when driving multiple LED strings" (2009). The
     δ / r_d relation follows from the Shockley equation (common practice).
 """
 
