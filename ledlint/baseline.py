@@ -30,7 +30,7 @@ from pathlib import Path
 from typing import Any
 
 from ledlint import __version__
-from ledlint.errors import LedlintError, failure_reason
+from ledlint.errors import LedlintError, read_utf8
 from ledlint.findings import Finding
 from ledlint.report.markdown import posix_path
 from ledlint.run import FileResult, RunResult
@@ -143,11 +143,7 @@ def parse(text: str, path: str) -> Baseline:
 
 
 def load(path: str | Path) -> Baseline:
-    try:
-        text = Path(path).read_text(encoding="utf-8")
-    except (OSError, UnicodeDecodeError) as exc:
-        raise LedlintError(f"cannot read the baseline: {failure_reason(exc)}", str(path)) from None
-    return parse(text, str(path))
+    return parse(read_utf8(path, "baseline"), str(path))
 
 
 def compare(result: RunResult, baseline: Baseline) -> Comparison:

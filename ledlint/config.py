@@ -15,7 +15,7 @@ from pathlib import Path
 from ledlint.frozen import FrozenMap
 from typing import Any, Mapping
 
-from ledlint.errors import ConfigError, failure_reason
+from ledlint.errors import ConfigError, read_utf8
 from ledlint.units import (Quantity, parse_current, parse_power, parse_temperature, parse_thermal_resistance,
                            parse_tolerance, parse_vf, parse_voltage)
 
@@ -283,12 +283,9 @@ def load(path: str | Path) -> Config:
     """Read a ledlint.toml file, or the [tool.ledlint] table of a pyproject.toml."""
     p = Path(path)
     name = str(path)
+    text = read_utf8(p, "configuration file", ConfigError)
     try:
-        data = tomllib.loads(p.read_text(encoding="utf-8"))
-    except FileNotFoundError:
-        raise ConfigError("no such configuration file", name) from None
-    except (OSError, UnicodeDecodeError) as exc:
-        raise ConfigError(f"cannot read the configuration: {failure_reason(exc)}", name) from None
+        data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
         m = re.search(r"\(at line (\d+), column (\d+)\)", str(exc))
         line, col = (int(m.group(1)), int(m.group(2))) if m else (0, 0)

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+from pathlib import Path
+
 
 class LedlintError(Exception):
     """Base of every error the tool reports to the user instead of a traceback."""
@@ -28,10 +30,31 @@ class ConfigError(LedlintError):
     """A configuration file or option that is malformed or names something unknown."""
 
 
+def byte_position(data: bytes, index: int) -> tuple[int, int]:
+    """Line and column (1-based, in characters) of byte `index` of UTF-8 text."""
+    line = data.count(b"\n", 0, index) + 1
+    start = data.rfind(b"\n", 0, index) + 1
+    return line, len(data[start:index].decode("utf-8", errors="replace")) + 1
+
+
+def read_utf8(path: str | Path, what: str, error: type[LedlintError] = LedlintError) -> str:
+    """A UTF-8 text file's contents; a file that is missing, unreadable or not UTF-8 is an
+    `error` naming the file (and, for a bad byte, its line and column)."""
+    try:
+        data = Path(path).read_bytes()
+    except FileNotFoundError:
+        raise error(f"no such {what}", str(path)) from None
+    except OSError as exc:
+        raise error(f"cannot read the {what}: {failure_reason(exc)}", str(path)) from None
+    try:
+        return data.decode("utf-8")
+    except UnicodeDecodeError as exc:
+        line, column = byte_position(data, exc.start)
+        raise error(f"the {what} is not UTF-8 text (byte 0x{data[exc.start]:02x})", str(path), line, column) from None
+
+
 def failure_reason(exc: Exception) -> str:
     """Why a file could not be read or written, in words, without the path the message names."""
-    if isinstance(exc, UnicodeDecodeError):
-        return f"not UTF-8 text (byte 0x{exc.object[exc.start]:02x} at offset {exc.start})"
     if isinstance(exc, OSError) and exc.strerror:
         return exc.strerror
     return str(exc)

@@ -7,7 +7,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from ledlint.frozen import FrozenMap
 
-from ledlint.errors import InputError, failure_reason
+from ledlint.errors import InputError, byte_position, failure_reason
 from ledlint.model import Component, Net, Netlist, Note, Pin, PinType, Sheet
 from ledlint.sexpr import Locator, SList, parse
 
@@ -58,24 +58,18 @@ def decode(data: bytes, path: str = "") -> tuple[str, list[Note]]:
     """
     nul = data.find(b"\0")
     if nul >= 0:
-        line, col = _byte_position(data, nul)
+        line, col = byte_position(data, nul)
         raise InputError("binary file (NUL byte), not a KiCad netlist", path, line, col)
     if data.startswith(b"\xef\xbb\xbf"):
         data = data[3:]
     try:
         return data.decode("utf-8"), []
     except UnicodeDecodeError as exc:
-        line, col = _byte_position(data, exc.start)
+        line, col = byte_position(data, exc.start)
         if not data.lstrip().startswith(b"("):
             raise InputError("not a text file (invalid UTF-8), not a KiCad netlist", path, line, col) from None
         note = Note(line, col, f"invalid UTF-8 byte 0x{data[exc.start]:02X}; undecodable bytes read as U+FFFD")
         return data.decode("utf-8", errors="replace"), [note]
-
-
-def _byte_position(data: bytes, index: int) -> tuple[int, int]:
-    line = data.count(b"\n", 0, index) + 1
-    start = data.rfind(b"\n", 0, index) + 1
-    return line, len(data[start:index].decode("utf-8", errors="replace")) + 1
 
 
 def parse_netlist(text: str, path: str = "<string>", notes: list[Note] | None = None) -> Netlist:

@@ -153,4 +153,4 @@ def test_bad_baseline_files_are_clear_errors(panel_files, text: str, message: st
 
 def test_missing_baseline_file(panel_files) -> None:
     r = ledlint("check", panel_files["A"], "--baseline", "nowhere.json")
-    assert r.returncode == 2 and "nowhere.json: error: cannot read the baseline" in r.stderr
+    assert r.returncode == 2 and "nowhere.json: error: no such baseline" in r.stderr

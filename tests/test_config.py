@@ -112,6 +112,16 @@ def test_toml_syntax_error_has_line_and_column(tmp_path) -> None:
     assert info.value.line == 2 and "not valid TOML" in info.value.message
 
 
+def test_a_file_that_is_not_utf8_says_where(tmp_path) -> None:
+    # TOML files are UTF-8 (TOML 1.0 spec, "Spec"): a stray Latin-1 byte is named, not echoed.
+    f = tmp_path / "ledlint.toml"
+    f.write_bytes(b'[ambient]\nmin = 0 # caf\xe9\n')
+    with pytest.raises(ConfigError) as info:
+        load(f)
+    err = info.value
+    assert (err.message, err.line, err.column) == ("the configuration file is not UTF-8 text (byte 0xe9)", 2, 14)
+
+
 def test_discovery_walks_up_and_reads_pyproject(tmp_path) -> None:
     board = tmp_path / "hw" / "main" / "board.net"
     board.parent.mkdir(parents=True)
