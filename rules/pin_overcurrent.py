@@ -12,8 +12,9 @@ Why it matters
 
 Example
     A red LED from a 3.3 V pin through 47 Ω: up to 21.7 mA at the worst corner, over the
-    20 mA per-pin default (a warning while the limit is that default; an error against a
-    `pin_current_max` from the part's datasheet). Fixed: 120 Ω, 12.6 mA at the worst corner.
+    20 mA per-pin default. Fixed: 120 Ω, 12.6 mA at the worst corner. The finding is an
+    error even when the limit is that default (listed under "assumed"): it is the figure a
+    pin is held to until the part's own is given (`pin_current_max`).
 
 Fix
     Raise the series resistor to the E24 value in the hint, or switch the LED with a
@@ -35,7 +36,7 @@ from typing import Iterator
 
 from ledlint.findings import Finding, Severity, Value
 from ledlint.registry import Rule, RuleContext
-from ledlint.rules._support import assumed_param, ballast_hint, by_evidence, circuit_assumptions, ids
+from ledlint.rules._support import assumed_param, ballast_hint, circuit_assumptions, ids
 
 
 def check(ctx: RuleContext) -> Iterator[Finding]:
@@ -45,13 +46,12 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
         for p in a.pins:
             if p.current_max <= p.limit.value:
                 continue
-            severity = by_evidence(Severity.ERROR, p.limit.assumed)
             verb = "sources" if p.sourcing else "sinks"
-            hint = ballast_hint(ctx, a, "switch the LED with a transistor or a driver")
-            hint += "; or switch the LED with a transistor"
+            hint = ballast_hint(ctx, a, "")
+            hint = f"{hint}; or switch the LED with a transistor" if hint else "switch the LED with a transistor or a driver"
             comp = ctx.board.parts.get(p.pin.ref)
             yield ctx.finding(
-                a, severity, "{ic} pin {pin} ({net}) {verb} up to {current} for {leds}, above its limit of {limit}",
+                a, Severity.ERROR, "{ic} pin {pin} ({net}) {verb} up to {current} for {leds}, above its limit of {limit}",
                 refs=(p.pin.ref, *a.circuit.refs), nets=(p.pin.net or "",),
                 values=(Value("current", p.current_max, "A", p.limit.value, ">"), Value("limit", p.limit.value, "A")),
                 assumed=tuple(assumed_param(f"{p.pin.ref} pin limit", p.limit, "A") + circuit_assumptions(a)), hint=hint,

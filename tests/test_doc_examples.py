@@ -142,7 +142,7 @@ def test_pin_overcurrent_example(tmp_path, r: str, worst: float, fires: bool) ->
     assert led.current.maximum == pytest.approx(hand_current(3.465, 0.95 * float(r) + 40, 1.665), rel=0.01)
     assert led.current.maximum == pytest.approx(worst, rel=0.05)
     f = got["by_rule"].get("pin-overcurrent")
-    assert (f is not None) == fires and (f is None or f.severity is Severity.WARNING)
+    assert (f is not None) == fires and (f is None or f.severity is Severity.ERROR)
 
 
 POWER_LED = dict(footprint="LED_SMD:LED_3535_Power", Vf="3.0V@350mA", If_max="1A", Rth="30K/W")

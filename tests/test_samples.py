@@ -50,7 +50,7 @@ DESIGNED = {
         ("supply-headroom", WARNING, ("D1", "R1")),  # green's Vf_max is the built-in +10 %: one step down
         # LINK: 22 Ω from a port pin (default 20 mA rating) into a 20 mA LED.
         ("current-margin", ERROR, ("D2", "R2")),
-        ("pin-overcurrent", WARNING, ("D2", "R2", "U1")),
+        ("pin-overcurrent", ERROR, ("D2", "R2", "U1")),
         # DISK: returns through the bezel connector.
         ("unrecognised-circuit", INFO, ("D3", "R3")),
         # FAN: on VCC, voltage unknown.

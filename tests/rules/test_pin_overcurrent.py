@@ -55,10 +55,11 @@ def test_sinking_pin(tmp_path: Path) -> None:
     assert "sinks up to" in f.message
 
 
-def test_default_pin_rating_is_a_warning(tmp_path: Path) -> None:
-    """No rating on U1: 20 mA is the built-in default, so one step down."""
+def test_default_pin_rating_still_an_error(tmp_path: Path) -> None:
+    """No rating on U1: the 20 mA per-pin default (the project's issue 4; common practice) holds,
+    at full severity, and the finding says it was assumed."""
     f = only(run_board(status_led("100"), tmp_path), "pin-overcurrent")
-    assert f.severity is Severity.WARNING
+    assert f.severity is Severity.ERROR
     assert value(f, "limit").value == 0.020
     assert any("U1 pin limit 20 mA" in a for a in f.assumed)
 
