@@ -186,6 +186,9 @@ class _Builder:
         for net in _sublists(nets, "net"):
             sec = _children(net)
             name = _atom(sec.get("name"))
+            if not name:  # KiCad always names a net; a hand-edited file may not, and "" reads as nothing
+                name = f"(unnamed net {_atom(sec.get('code')) or len(items) + 1})"
+                self.note(net, f"a net without a name; reported as {name}")
             if name in seen_names:
                 self.note(net, f"net name {name!r} appears twice; the second net's pins are merged into the first")
             seen_names.add(name)

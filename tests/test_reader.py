@@ -127,6 +127,14 @@ def test_pin_on_two_nets_is_noted_not_fatal() -> None:
     assert any("two nets" in note.message for note in n.notes)
 
 
+def test_a_net_without_a_name_gets_one_a_report_can_show() -> None:
+    # KiCad names every net (kicad-netlist-format.md); a hand-edited file may leave one empty.
+    n = parse_netlist('(export (version "E") (components (comp (ref "R1") (value "1k")))'
+                      ' (nets (net (code "7") (name "") (node (ref "R1") (pin "1")))))')
+    assert n.component("R1").pin("1").net == "(unnamed net 7)"
+    assert [note.message for note in n.notes] == ["a net without a name; reported as (unnamed net 7)"]
+
+
 def test_unknown_version_and_unknown_sections_are_tolerated() -> None:
     n = parse_netlist('(export (version "F") (future (x)) (components) (nets))')
     assert n.components == () and "unknown netlist version" in n.notes[0].message
