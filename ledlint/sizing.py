@@ -118,6 +118,46 @@ def _size(ec: Circuit, limit: float) -> BallastFix | None:
     return BallastFix(r, False, float(cor.led_current_max.max()), cor.ballast_power_max, 0.0, "", ratio)
 
 
+@dataclass(frozen=True)
+class HeadroomFix:
+    """What restores a resistor-fed string's headroom (see least_supply)."""
+
+    supply: float | None  # V nominal, at the present supply's tolerance; None: no resistor can
+    leds: int | None  # the most LEDs per string the present supply can take; None: no fewer will do
+
+
+def headroom_fix(analysis: Analysis, ratio: float) -> HeadroomFix | None:
+    """The least nominal supply, at the present supply's tolerance, and the most LEDs per string
+    on the present supply, that keep the low-corner current at `ratio` of nominal or more once
+    the ballast is re-sized for the same current.
+
+    With the ballast R' = (V − S) / I for the nominal string voltage S, the low corner gives
+    (lo·V − H) / (k·R') ≥ ratio·I, so V ≥ (H − ratio·k·S) / (lo − ratio·k): lo = V_min / V,
+    k = R_max / R, H the string at maximum Vf and coldest (each with the switch's drop). With
+    n LEDs of s and h each, and a switch drop w, the same inequality bounds n. The LEDs' Vf
+    falls with the lower current there, which only helps, so both bounds are on the safe side.
+    """
+    if analysis.supply is None or analysis.headroom_v is None or not analysis.engine:
+        return None
+    volts = analysis.supply.volts
+    ec = analysis.engine[0]
+    path = ec.r_series + ec.r_switch + Range.fixed(ec.r_source)
+    if volts.nominal <= 0 or path.nominal <= 0:
+        return None
+    lo, mk = volts.minimum / volts.nominal, ratio * path.maximum / path.nominal
+    by_id = {r.id: r.vf for r in analysis.leds}
+    branch = max(analysis.circuit.branches, key=lambda b: sum(by_id.get(e.id, 0.0) for e in b.leds))
+    n, w = len(branch.leds), ec.v_switch.nominal
+    s = sum(by_id.get(e.id, 0.0) for e in branch.leds) + w
+    h = volts.minimum - analysis.headroom_v
+    if lo - mk <= 0:
+        return HeadroomFix(None, None)
+    supply = max((h - mk * s) / (lo - mk), h)
+    per_led = ((h - w) - mk * (s - w)) / n
+    most = math.floor((volts.nominal * (lo - mk) - w * (1 - mk)) / per_led) if per_led > 0 else n
+    return HeadroomFix(supply, most if 1 <= most < n else None)
+
+
 def equal_share_resistor(supply_nominal: float, vf_typical: float, current: float) -> float | None:
     """An E24 resistor that gives one LED about `current` on its own (Ohm's law, Vf fixed)."""
     if current <= 0 or supply_nominal <= vf_typical:

@@ -19,13 +19,16 @@ Example
     part's. Fixed: run it from +5V through 150 Ω: about 14 mA nominal and 9 mA at the low corner.
 
 Fix
-    Use a higher rail (the hint gives the least supply that leaves 1 V across the ballast),
-    fewer LEDs in series, a lower-Vf LED, or a constant-current driver.
+    Use a higher rail (the hint gives the least nominal supply at which, with the ballast
+    re-sized for the same current, the low corner keeps half the nominal current), fewer LEDs
+    in series, a lower-Vf LED, or a constant-current driver.
 
 Formula
     headroom = V_supply,min − V_switch,max − Σ Vf,max(I_nominal, T_cold); the low-corner
     current is solved with the minimum supply, maximum resistances and switch drop, every LED
-    at its maximum Vf and the coldest ambient.
+    at its maximum Vf and the coldest ambient. Least supply for the hint, with S the nominal
+    string voltage, H the string at maximum Vf and coldest, lo = V_min / V and k = R_max / R:
+    V ≥ (H − ratio·k·S) / (lo − ratio·k).
 
 Source
     Ohm's law with the Shockley diode equation; that the ballast drop must be large against
@@ -38,6 +41,7 @@ from typing import Iterator
 
 from ledlint.findings import Finding, Severity, Value, quantity
 from ledlint.registry import Option, Rule, RuleContext
+from ledlint.sizing import headroom_fix
 from ledlint.topology import TerminalKind
 from ledlint.rules._support import by_evidence, circuit_assumptions, ids, is_default, led_assumptions
 
@@ -74,16 +78,25 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                         "against {nominal} nominal")
         else:
             template = ("at the low corner ({supply_min} supply, maximum Vf) {led} drops to {low}, "
-                        "{ratio} of its {nominal} nominal; the ballast has only {headroom} to work with")
-        need = string_v + 1.0
+                        "{ratio} of its {nominal} nominal: only {headroom} is left above the maximum Vf")
+        fix = headroom_fix(a, least)
         c = a.circuit
+        tol = a.supply.volts.maximum / a.supply.volts.nominal - 1 if a.supply.volts.nominal > 0 else 0.0
+        rail = (f"{quantity(fix.supply, 'V')} nominal (±{quantity(tol, '%')} as now), with the ballast re-sized "
+                "for the same current" if fix is not None and fix.supply is not None else "")
+        fewer = (f"at most {fix.leds} LEDs per string" if fix is not None and fix.leds is not None
+                 else "fewer LEDs in series")
+        if fix is not None and fix.supply is not None:
+            values += (Value("supply_needed", fix.supply, "V"),)
         if any(t is not None and t.kind is TerminalKind.PIN for t in (c.source, c.ret)) or c.individually_driven:
             # A pin's level is its IC's supply: raising one end's rail back-drives the pin.
-            hint = (f"switch the LED with a transistor from a rail of at least {quantity(need, 'V')}, or use a "
-                    "lower-Vf LED")
+            hint = ((f"switch the LED with a transistor from a rail of at least {rail}, or " if rail else "")
+                    + "use a lower-Vf LED or a constant-current driver")
+        elif rail:
+            hint = f"use a supply of at least {rail}, {fewer}, a lower-Vf LED, or a constant-current driver"
         else:
-            hint = (f"use a supply of at least {quantity(need, 'V')} (1 V across the ballast at the low corner), "
-                    "fewer LEDs in series, a lower-Vf LED, or a constant-current driver")
+            hint = ("the supply's own tolerance leaves no resistor that holds the current: use a "
+                    f"constant-current driver, {fewer}, or a lower-Vf LED")
         # LEDs each lit alone by their own pin are separate circuits for headroom: name the one.
         who = low.id if a.circuit.individually_driven else ids(a.circuit.leds)
         yield ctx.finding(a, severity, template, values=values, hint=hint, leds=who, led=low.id,

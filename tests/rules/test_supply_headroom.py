@@ -78,3 +78,35 @@ def test_bank_low_current_and_ratio_agree(tmp_path: Path) -> None:
     f = only(run_board(b, tmp_path, SAGGING), "supply-headroom")
     assert value(f, "low").value == pytest.approx(value(f, "ratio").value * value(f, "nominal").value, rel=1e-3)
 
+
+
+WHITE = dict(Vf="3.0V@20mA", Vf_max="3.4V", If_max="50mA")
+
+
+def string_of(n: int, rail: str, ohms: float) -> Board:
+    b = Board("string", "supply-headroom fixture")
+    b.resistor("R1", f"{ohms:.2f}", rail, "Net-(D1-A)", footprint="Resistor_SMD:R_2512_6332Metric")
+    nets = ["Net-(D1-A)"] + [f"Net-(D{i + 2}-A)" for i in range(n - 1)] + ["GND"]
+    for i in range(n):
+        b.led(f"D{i + 1}", "white", nets[i], nets[i + 1], Rth="0", **WHITE)
+    return b
+
+
+def test_the_hint_s_supply_and_string_length_clear_the_warning(tmp_path: Path) -> None:
+    """Three white LEDs on +12V through 150 Ω: under half the current at the low corner. The hint's
+    supply, with the ballast re-sized for the same current by Ohm's law, clears it; so does the
+    string length it names on the present supply (the hint's promise, checked by the engine)."""
+    for sub in ("bad", "higher", "shorter"):
+        (tmp_path / sub).mkdir()
+    f = only(run_board(string_of(3, "+12V", 150.0), tmp_path / "bad"), "supply-headroom")
+    assert f.severity is Severity.WARNING and "at most 2 LEDs per string" in f.hint
+    current = value(f, "nominal").value
+    string = 12.0 - current * 150.0  # Ohm's law: what the resistor does not drop, the LEDs do
+    supply = value(f, "supply_needed").value
+    assert 12.0 < supply < 16.0
+    rails = f'[rails."+VLED"]\nnominal = {supply:.3f}\ntolerance = 0.05\n'
+    higher = run_board(string_of(3, "+VLED", (supply - string) / current), tmp_path / "higher", rails)
+    assert of_rule(higher, "supply-headroom") == []
+    assert higher.board.analyses[0].nominal_current == pytest.approx(current, rel=0.02)
+    shorter = run_board(string_of(2, "+12V", (12.0 - string * 2 / 3) / current), tmp_path / "shorter")
+    assert of_rule(shorter, "supply-headroom") == []
