@@ -181,7 +181,7 @@ class _Builder:
 
     def _read_nets(self, nets: SList | None) -> tuple[dict[tuple[str, str], _NodeInfo], list[tuple[SList, str]]]:
         nodes: dict[tuple[str, str], _NodeInfo] = {}
-        items = []
+        items: list[tuple[SList, str]] = []
         seen_names: set[str] = set()
         for net in _sublists(nets, "net"):
             sec = _children(net)

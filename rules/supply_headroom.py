@@ -67,7 +67,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
         table = any(is_default(r.params.vf) for r in a.leds)
         severity = by_evidence(by_evidence(severity, table), table or any(is_default(r.params.vf_max) for r in a.leds))
         string_v = a.supply.volts.minimum - a.headroom_v
-        values = (Value("supply_min", a.supply.volts.minimum, "V"), Value("string", string_v, "V"),
+        values: tuple[Value, ...] = (Value("supply_min", a.supply.volts.minimum, "V"), Value("string", string_v, "V"),
                   Value("headroom", a.headroom_v, "V", 0.0, "<"), Value("low", low.low, "A"),
                   Value("nominal", low.current.nominal, "A"),
                   Value("ratio", low.low / max(low.current.nominal, 1e-15), "%", least, "<"))
