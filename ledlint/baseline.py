@@ -7,14 +7,15 @@ The file (written by `ledlint baseline`, read by `ledlint check --baseline`):
       "written_by": "ledlint 0.1.0",
       "entries": [
         {"file": "boards/panel.net", "rule": "supply-headroom", "fingerprint": "3f0c…",
-         "refs": ["D3", "R3"], "nets": ["+3V3", "GND"], "message": "…"}
+         "severity": "warning", "refs": ["D3", "R3"], "nets": ["+3V3", "GND"], "message": "…"}
       ]
     }
 
 `file` is the netlist's path relative to the folder of the baseline file, with forward slashes,
 so the baseline works from any working folder. A finding is known when an entry has its file
 and fingerprint (rule, sorted refs, sorted nets: never line numbers or the order of the
-export); each entry accounts for one finding. `refs`, `nets` and `message` are for the
+export) and a severity no worse than the recorded one: a warning that has become an error is
+new. Each entry accounts for one finding. `refs`, `nets` and `message` are for the
 reader of the file and for naming stale entries; matching ignores them. An entry is stale
 when its file was checked and nothing in it matched (entries of files not checked in a run,
 as in a hook that sees only the changed files, are left alone). Entries are sorted,
@@ -24,14 +25,13 @@ and the file holds no date, so re-recording an unchanged board changes nothing.
 from __future__ import annotations
 
 import json
-from collections import Counter
 from dataclasses import dataclass, replace
 from pathlib import Path
 from typing import Any
 
 from ledlint import __version__
 from ledlint.errors import LedlintError, read_utf8
-from ledlint.findings import Finding
+from ledlint.findings import Finding, Severity
 from ledlint.report.markdown import posix_path
 from ledlint.run import FileResult, RunResult
 
@@ -45,6 +45,7 @@ class Entry:
     file: str
     rule: str
     fingerprint: str
+    severity: Severity = Severity.ERROR  # the worst a matching finding may be (older files: any)
     refs: tuple[str, ...] = ()
     nets: tuple[str, ...] = ()
     message: str = ""
@@ -89,14 +90,15 @@ def _folder(baseline_path: str | Path) -> Path:
 def entries(result: RunResult, baseline_path: str | Path) -> tuple[Entry, ...]:
     """An entry for every active finding of the run, files relative to the baseline's folder."""
     folder = _folder(baseline_path)
-    out = [Entry(posix_path(f.file, folder), f.rule, f.fingerprint, f.refs, f.nets, f.message)
+    out = [Entry(posix_path(f.file, folder), f.rule, f.fingerprint, f.severity, f.refs, f.nets, f.message)
            for f in result.findings]
     return tuple(sorted(out, key=lambda e: (e.file, e.rule, e.fingerprint, e.refs, e.message)))
 
 
 def document(items: tuple[Entry, ...]) -> dict[str, Any]:
     return {FORMAT_KEY: VERSION, "written_by": f"ledlint {__version__}",
-            "entries": [{"file": e.file, "rule": e.rule, "fingerprint": e.fingerprint, "refs": list(e.refs),
+            "entries": [{"file": e.file, "rule": e.rule, "fingerprint": e.fingerprint,
+                         "severity": e.severity.value, "refs": list(e.refs),
                          "nets": list(e.nets), "message": e.message} for e in items]}
 
 
@@ -121,7 +123,12 @@ def _entry(raw: Any, i: int, path: str) -> Entry:
     message = raw.get("message", "")
     if not isinstance(message, str):
         raise LedlintError(f"{where}: 'message' must be a string", path)
-    return Entry(raw["file"], raw["rule"], raw["fingerprint"], _strings(raw.get("refs", []), where + " refs", path),
+    levels = [s.value for s in Severity]
+    severity = raw.get("severity", "error")
+    if severity not in levels:
+        raise LedlintError(f"{where}: 'severity' must be one of {', '.join(levels)}", path)
+    return Entry(raw["file"], raw["rule"], raw["fingerprint"], Severity(severity),
+                 _strings(raw.get("refs", []), where + " refs", path),
                  _strings(raw.get("nets", []), where + " nets", path), message)
 
 
@@ -149,7 +156,9 @@ def load(path: str | Path) -> Baseline:
 def compare(result: RunResult, baseline: Baseline) -> Comparison:
     """Split the run's findings into new and known, and find the entries nothing matched."""
     folder = _folder(baseline.path)
-    remaining = Counter(e.key for e in baseline.entries)
+    remaining: dict[tuple[str, str], list[Entry]] = {}
+    for e in sorted(baseline.entries, key=lambda e: e.severity.rank):  # the mildest entry that covers a finding
+        remaining.setdefault(e.key, []).append(e)
     reason = f"known: recorded in baseline {baseline.path}"
     checked = {posix_path(fr.path, folder) for fr in result.files}
     files: list[FileResult] = []
@@ -159,9 +168,9 @@ def compare(result: RunResult, baseline: Baseline) -> Comparison:
         name = posix_path(fr.path, folder)
         active, silenced = [], []
         for f in fr.findings:
-            key = (name, f.fingerprint)
-            if remaining[key] > 0:
-                remaining[key] -= 1
+            covering = [e for e in remaining.get((name, f.fingerprint), []) if e.severity.rank >= f.severity.rank]
+            if covering:
+                remaining[(name, f.fingerprint)].remove(covering[0])
                 silenced.append(replace(f, waived=reason))
             else:
                 active.append(f)
@@ -169,9 +178,6 @@ def compare(result: RunResult, baseline: Baseline) -> Comparison:
         known += silenced
         files.append(replace(fr, findings=tuple(active),
                              waived=tuple(sorted((*fr.waived, *silenced), key=lambda f: f.sort_key))))
-    stale = []
-    for e in baseline.entries:
-        if e.file in checked and remaining[e.key] > 0:
-            remaining[e.key] -= 1
-            stale.append(e)
+    order = {id(e): i for i, e in enumerate(baseline.entries)}
+    stale = sorted((e for left in remaining.values() for e in left if e.file in checked), key=lambda e: order[id(e)])
     return Comparison(baseline, replace(result, files=tuple(files)), tuple(new), tuple(known), tuple(stale))

@@ -132,6 +132,24 @@ def test_files_not_checked_leave_their_entries_alone(panel_files) -> None:
     assert only_a.returncode == 0 and "0 stale entries" in only_a.stderr, only_a.stderr
 
 
+def test_a_finding_that_got_worse_is_new(panel_files) -> None:
+    """A baseline accepts what was known, not worse (common practice for lint baselines): an entry
+    recorded as a warning does not cover the same finding as an error, and is left stale."""
+    from ledlint.findings import Severity
+
+    result = check([panel_files["A"]])
+    f = next(x for x in result.findings if x.severity is Severity.ERROR)
+    for recorded, covered in ((Severity.WARNING, False), (Severity.ERROR, True)):
+        b = baseline.Baseline("b.json", (baseline.Entry(panel_files["A"], f.rule, f.fingerprint, recorded),))
+        compared = baseline.compare(result, b)
+        assert (f in compared.new) is not covered
+        assert len(compared.stale) == (0 if covered else 1)
+    # A file written before entries carried a severity covers any severity.
+    old = baseline.parse(json.dumps({"ledlint_baseline": 1, "entries": [
+        {"file": "a.net", "rule": f.rule, "fingerprint": f.fingerprint}]}), "old.json")
+    assert old.entries[0].severity is Severity.ERROR
+
+
 @pytest.mark.parametrize(("text", "message"), [
     ("{not json", "1:2: error: not a baseline file: Expecting property name"),
     ('{"entries": []}', "not a baseline file: no 'ledlint_baseline' key"),
@@ -141,6 +159,8 @@ def test_files_not_checked_leave_their_entries_alone(panel_files) -> None:
      "entry 1: 'fingerprint' must be a non-empty string"),
     ('{"ledlint_baseline": 1, "entries": [{"file": "a.net", "rule": "x", "fingerprint": "f", "refs": "D1"}]}',
      "entry 1 refs: expected a list of strings"),
+    ('{"ledlint_baseline": 1, "entries": [{"file": "a.net", "rule": "x", "fingerprint": "f", "severity": "fatal"}]}',
+     "entry 1: 'severity' must be one of error, warning, info"),
 ])
 def test_bad_baseline_files_are_clear_errors(panel_files, text: str, message: str) -> None:
     Path("bad.json").write_text(text, encoding="utf-8")
