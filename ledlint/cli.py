@@ -8,10 +8,12 @@ import importlib
 import os
 import sys
 import tempfile
+import time
 import traceback
+from contextlib import contextmanager
 from pathlib import Path
 from types import ModuleType
-from typing import Callable, Sequence
+from typing import Callable, Iterator, Sequence
 
 from ledlint import __version__
 from ledlint.errors import LedlintError, failure_reason
@@ -19,6 +21,7 @@ from ledlint.registry import rule_doc
 from ledlint.run import FAIL_LEVELS, RunResult, check, load_rules
 
 EXIT_CLEAN, EXIT_FINDINGS, EXIT_BAD_INPUT, EXIT_INTERNAL = 0, 1, 2, 3
+EXIT_INTERRUPTED = 130  # the shell's 128 + SIGINT
 
 # Format name → the module whose render(result) writes it; imported only when asked for, so a
 # check does not pay for the formats it does not print.
@@ -46,7 +49,8 @@ def find_netlists(paths: Sequence[str]) -> list[Path]:
             found.extend(sorted(f for f in p.rglob("*.net")
                                 if f.is_file() and not any(part.startswith(".") for part in f.relative_to(p).parts)))
         elif not p.exists() and glob.has_magic(raw):
-            matches = sorted(Path(m) for m in glob.glob(raw, recursive=True))
+            # A pattern names files: a folder it happens to match ("hw/**") is not a netlist.
+            matches = sorted(m for m in map(Path, glob.glob(raw, recursive=True)) if m.is_file())
             if not matches:
                 raise LedlintError("no file matches this pattern", raw)
             found.extend(matches)
@@ -113,26 +117,33 @@ def write_whole(out: str, destination: str | None) -> None:
         raise
 
 
-def _progress() -> Callable[[int, int], None] | None:
+@contextmanager
+def _progress() -> Iterator[Callable[[int, int], None] | None]:
+    """A progress bar on standard error when it is a terminal and the run takes long (half a
+    second or more); the report on standard output is never touched, and an interrupt clears it."""
     if not sys.stderr.isatty():
-        return None
+        yield None
+        return
+    from rich.console import Console
     from rich.progress import Progress
 
-    bar = Progress(transient=True)
+    bar = Progress(console=Console(stderr=True), transient=True)
     task = None
+    started = time.monotonic()
 
     def update(done: int, total: int) -> None:
         nonlocal task
-        if total < 4:
-            return
         if task is None:
+            if done == total or time.monotonic() - started < 0.5:
+                return
             bar.start()
             task = bar.add_task("checking", total=total)
         bar.update(task, completed=done)
-        if done == total:
-            bar.stop()
 
-    return update
+    try:
+        yield update
+    finally:
+        bar.stop()
 
 
 def _render(fmt: str, result: RunResult, args: argparse.Namespace) -> str:
@@ -146,7 +157,8 @@ def _render(fmt: str, result: RunResult, args: argparse.Namespace) -> str:
 def cmd_check(args: argparse.Namespace) -> int:
     baseline = _module("ledlint.baseline")
     known = baseline.load(args.baseline) if args.baseline else None
-    result = check(find_netlists(args.paths), config_path=args.config, progress=_progress())
+    with _progress() as progress:
+        result = check(find_netlists(args.paths), config_path=args.config, progress=progress)
     if known is not None:
         compared = baseline.compare(result, known)
         result = compared.result
@@ -157,7 +169,8 @@ def cmd_check(args: argparse.Namespace) -> int:
 
 
 def cmd_baseline(args: argparse.Namespace) -> int:
-    result = check(find_netlists(args.paths), config_path=args.config, progress=_progress())
+    with _progress() as progress:
+        result = check(find_netlists(args.paths), config_path=args.config, progress=progress)
     write_whole(_module("ledlint.baseline").render(result, args.output), args.output)
     print(f"{args.output}: recorded {len(result.findings)} finding(s) from {len(result.files)} file(s)",
           file=sys.stderr)
@@ -214,6 +227,9 @@ def main(argv: Sequence[str] | None = None) -> int:
         return EXIT_BAD_INPUT
     except BrokenPipeError:
         return EXIT_CLEAN
+    except KeyboardInterrupt:
+        print("ledlint: interrupted; nothing written", file=sys.stderr)
+        return EXIT_INTERRUPTED
     except Exception as exc:  # a bug in ledlint, not in the input: never exit 1, which means findings
         where = traceback.extract_tb(exc.__traceback__)[-1]
         print(f"ledlint: internal error: {type(exc).__name__}: {exc} (at {Path(where.filename).name}:{where.lineno}); "

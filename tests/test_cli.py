@@ -62,3 +62,15 @@ def test_lazy_format_tables_match_their_modules() -> None:
     assert cli.DIFF_FORMATS == tuple(diff.FORMATS) and cli.BASELINE_NAME == baseline.DEFAULT_NAME
     for module in cli.FORMATS.values():
         assert callable(cli._module(module).render)
+
+
+def test_an_interrupt_is_one_line_and_exit_130(monkeypatch, capsys) -> None:
+    """Ctrl-C: the shell's convention, 128 + SIGINT (common practice), and no traceback."""
+    from ledlint import cli
+
+    def interrupted(*args, **kwargs):
+        raise KeyboardInterrupt
+
+    monkeypatch.setattr(cli, "check", interrupted)
+    assert cli.main(["check", str(SAMPLES)]) == 130
+    assert capsys.readouterr().err == "ledlint: interrupted; nothing written\n"

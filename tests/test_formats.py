@@ -101,6 +101,7 @@ def test_many_files_folder_and_glob(tmp_path: Path, monkeypatch: pytest.MonkeyPa
         folder = tmp_path / "hw" / f"board{i}"
         folder.mkdir(parents=True)
         (folder / "panel.net").write_text(workshop_panel("ABC"[i % 3]).text(), encoding="utf-8")
+    (tmp_path / "hw" / "odd.net").mkdir()  # a folder a pattern matches is not a netlist
     by_folder = subprocess.run([sys.executable, "-m", "ledlint", "check", "hw", "--format", "json"],
                                capture_output=True, text=True)
     by_glob = subprocess.run([sys.executable, "-m", "ledlint", "check", "hw/**/*.net", "--format", "json"],
