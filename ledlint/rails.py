@@ -45,8 +45,9 @@ _GROUND = re.compile(r"(?:[ADPSC]?GND(?:[ADPS]|PWR|REF|ISO)?[0-9]*|VSS[AD]?[0-9]
 # Net names KiCad makes up for unnamed nets.
 _GENERATED = re.compile(r"(?:Net|unconnected)-\(", re.IGNORECASE)
 # A voltage written into a name: "5V", "+3V3", "3.3V", "12V0", "-12V", with a kind suffix.
+# A leading P is the positive-rail spelling some schematics use ("P3V3", "P5V0", "P12V").
 _VOLTAGE_WORD = re.compile(
-    r"(?P<volts>[+\-]?[0-9]+(?:V[0-9]+|\.[0-9]+V|V))(?P<suffix>A|D|SB|DC|AC|~)?", re.IGNORECASE
+    r"(?:P(?=[0-9]))?(?P<volts>[+\-]?[0-9]+(?:V[0-9]+|\.[0-9]+V|V))(?P<suffix>A|D|SB|DC|AC|~)?", re.IGNORECASE
 )
 _AC_PREFIX = re.compile(r"~\s*")
 _VBUS_WORDS = frozenset({"VBUS", "VUSB"})

@@ -283,8 +283,11 @@ class Topology:
         if not others and len(ends) <= 1:
             unfitted = sorted({p.ref for p in self.graph.pins_on(net)
                                if (c := self.graph.component(p.ref)) is not None and c.dnp})
+            caps = sorted({p.ref for p in self.graph.pins_on(net) if (c := self.graph.component(p.ref)) is not None
+                           and not c.dnp and classify(c) is Kind.CAPACITOR})
             detail = (f"only {', '.join(unfitted)}, marked do-not-populate, is connected to it" if unfitted else
-                      "nothing else is connected to it")
+                      f"only {', '.join(caps)} (open at DC) {'is' if len(caps) == 1 else 'are'} connected to it"
+                      if caps else "nothing else is connected to it")
             return Terminal(net, TerminalKind.OPEN, detail=detail)
         return Terminal(net, TerminalKind.OTHER, others[0] if others else None, self.holding(net))
 

@@ -30,6 +30,9 @@ def dc_rail(name: str) -> Rail:
         ("+24V", 24.0),
         ("+1V8", 1.8),
         ("+1V2", 1.2),
+        ("P3V3", 3.3),  # the P-for-positive spelling of house styles (common practice)
+        ("P5V0", 5.0),
+        ("P12V", 12.0),
         ("VDD_3V3", 3.3),
         ("+5VA", 5.0),
         ("5VSB", 5.0),
@@ -120,6 +123,8 @@ def test_ac_rails(name: str, volts: float) -> None:
         # Decision: a voltage glued to another word is not a rail (a false rail gives false alarms).
         "/LED5V",
         "/U3V3",
+        "PA3",  # a port pin, not a P-prefixed rail
+        "LED_P5V_EN",
         # Supplies of unknown voltage.
         "VCC",
         "VDD",
