@@ -323,8 +323,8 @@ class _Analyser:
         worst = max(abs(sup[0].volts.maximum), abs(sup[0].volts.minimum))
         results = tuple(LedResult(p.id, p, Range.fixed(0.0), 0.0, self.ctx.ambient.maximum,
                                   worst if (p.id in opposed) == (sup[0].volts.maximum >= 0) else 0.0) for p in leds)
-        return Analysis(c, solved=True, assumptions=("the whole supply may fall on one reversed LED (leakage "
-                                                     "decides)",), supply=sup[0], leds=results)
+        leakage = ("the whole supply may fall on one reversed LED (leakage decides)",) if opposed else ()
+        return Analysis(c, solved=True, assumptions=leakage, supply=sup[0], leds=results)
 
     # -------------------------------------------------------------- current drive
     def current_driven(self, c: LedCircuit) -> Job[Analysis]:

@@ -113,6 +113,11 @@ class LedCircuit:
         return tuple(e for e in self.elements if e.kind is ElementKind.RESISTOR)
 
     @property
+    def reversed_switches(self) -> tuple[Element, ...]:
+        """Transistors in the LEDs' path fitted with their main terminals swapped."""
+        return tuple(e for e in self.elements if e.kind is ElementKind.SWITCH and e.against)
+
+    @property
     def refs(self) -> tuple[str, ...]:
         """Every part of the circuit, LEDs first, without repeats."""
         refs = [i.split(":")[0] for i in self.leds] + [e.ref for e in self.elements]

@@ -308,9 +308,23 @@ def _orient(chain: list[Element]) -> Segment:
     guide = [e for e in chain if e.kind is ElementKind.LED] or [e for e in chain if e.polar]
     if guide and guide[0].against:
         chain = [e.flipped() for e in reversed(chain)]
-    opposed = [e.id for e in chain if e.polar and e.against]
-    conflict = ""
+    opposed = [e.id for e in chain if e.polar and e.against and e.kind is not ElementKind.SWITCH]
+    reasons = [REVERSED_SWITCH[e.part].format(ref=e.ref) for e in chain
+               if e.kind is ElementKind.SWITCH and e.against]
     if opposed:
         verb = "faces" if len(opposed) == 1 else "face"
-        conflict = f"{', '.join(opposed)} {verb} against the other parts in series with it"
-    return Segment(tuple(chain), chain[0].net_a, chain[-1].net_b, conflict)
+        reasons.insert(0, f"{', '.join(opposed)} {verb} against the other parts in series with it")
+    return Segment(tuple(chain), chain[0].net_a, chain[-1].net_b, "; ".join(reasons))
+
+
+# A transistor fitted with its main terminals swapped, against the LEDs' current (common practice;
+# a MOSFET's body diode runs from source to drain in an N-channel part, drain to source in a
+# P-channel one, so swapped, it is forward-biased by the LEDs' own supply).
+REVERSED_SWITCH = {
+    Kind.NMOS: "{ref} has drain and source swapped: its body diode conducts, so the LEDs stay lit whatever its gate does",
+    Kind.PMOS: "{ref} has drain and source swapped: its body diode conducts, so the LEDs stay lit whatever its gate does",
+    Kind.NPN: "{ref} has collector and emitter swapped: run in reverse it barely switches (a current gain of a few) "
+              "and its base-emitter junction breaks down at about 6 V",
+    Kind.PNP: "{ref} has collector and emitter swapped: run in reverse it barely switches (a current gain of a few) "
+              "and its base-emitter junction breaks down at about 6 V",
+}

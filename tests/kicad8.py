@@ -24,6 +24,11 @@ SYMBOLS: dict[str, tuple[str, str, str, str, tuple[tuple[str, str, str], ...]]] 
                   (("1", "B", "input"), ("2", "E", "passive"), ("3", "C", "passive"))),
     "Q_NMOS_GSD": ("Device", "Q_NMOS_GSD", "N-MOSFET transistor, gate/source/drain", "transistor NMOS N-MOS N-MOSFET",
                    (("1", "G", "input"), ("2", "S", "passive"), ("3", "D", "passive"))),
+    "Q_PMOS_GSD": ("Device", "Q_PMOS_GSD", "P-MOSFET transistor, gate/source/drain", "transistor PMOS P-MOS P-MOSFET",
+                   (("1", "G", "input"), ("2", "S", "passive"), ("3", "D", "passive"))),
+    # A house-library MOSFET whose pins carry numbers only: its roles rest on the package's usual order.
+    "NMOS_SOT23": ("ledlint_demo", "NMOS_SOT23", "N-channel MOSFET (demo part)", "transistor NMOS",
+                   (("1", "", "passive"), ("2", "", "passive"), ("3", "", "passive"))),
     "LED_RGBA": ("Device", "LED_RGBA", "RGB LED, red/green/blue/anode", "LED RGB diode",
                  (("1", "RK", "passive"), ("2", "GK", "passive"), ("3", "BK", "passive"), ("4", "A", "passive"))),
     "Conn_01x02": ("Connector_Generic", "Conn_01x02", "Generic connector, single row, 01x02", "connector",

@@ -55,7 +55,7 @@ def row(path: str, a: Analysis) -> CircuitRow:
     power = max((r.power_max for r in a.resistors), default=None) if a.solved else None
     note = _NOT_ANALYSED.get(c.kind, c.reason if c.kind is CircuitKind.UNRECOGNISED else "")
     if c.blocked:
-        note = f"never conducts: {c.blocked}"
+        note = f"not analysed: {c.blocked}" if c.reversed_switches else f"never conducts: {c.blocked}"
     elif a.reversed:
         current, power, note = None, None, "reversed: never conducts"
     elif not a.solved and a.missing:
@@ -63,7 +63,7 @@ def row(path: str, a: Analysis) -> CircuitRow:
     headroom = a.headroom_v if a.solved and current is not None else None
     rail = a.rail or None
     return CircuitRow(path, c.id, c.kind.value, c.leds, ballast, c.source.net if c.source else None,
-                      c.ret.net if c.ret else None, rail, current, power, headroom, a.solved and current is not None,
+                      c.ret.net if c.ret else None, rail, current, power, headroom, a.solved,
                       note)
 
 
