@@ -18,7 +18,7 @@ from typing import Mapping
 import numpy as np
 
 from ledlint.config import Config
-from ledlint.drive import VCE_SAT, SetCurrent, driver_current, sink_current
+from ledlint.drive import VCE_SAT, BaseDrive, SetCurrent, base_drive, driver_current, sink_current
 from ledlint.engine import Branch as EBranch
 from ledlint.engine import Circuit as ECircuit
 from ledlint.batch import Job, solve_all
@@ -72,6 +72,7 @@ class PinResult:
     limit: Param
     current_max: float
     sourcing: bool
+    base: BaseDrive | None = None  # the pin drives a switch's base rather than the LEDs themselves
 
 
 @dataclass(frozen=True)
@@ -264,7 +265,9 @@ class _Analyser:
                 results = tuple(replace(r, reverse_v=max(r.reverse_v, reverse)) for r in results)
                 assumptions.append("AC supply: the whole reverse peak may fall on one LED (leakage decides)")
         results = _guarded(c, results, assumptions)
-        pins = tuple(p for s in solved for p in s.pins)
+        pins = tuple(p for s in solved for p in s.pins) + tuple(
+            PinResult(b.pin, pin_limit(self.ctx.comp(b.pin.ref), self.ctx.config), b.current.maximum, b.sourcing, b)
+            for b in base_drive(c, self.ctx.graph, self.ctx.config))
         gains = [s.loop_gain for s in solved if s.loop_gain is not None]
         return Analysis(c, solved=True, assumptions=tuple(dict.fromkeys(assumptions)), supply=first_supply,
                         leds=results, resistors=resistors, pins=pins,

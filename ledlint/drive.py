@@ -12,8 +12,12 @@ from dataclasses import dataclass
 from ledlint.config import DRIVER_KINDS, Config
 from ledlint.engine import Range
 from ledlint.graph import NetGraph
-from ledlint.params import Missing, Origin, Param, resistor_params
-from ledlint.recognise import DriverIC, Reference, ReferenceKind, Sink
+from ledlint.model import Pin
+from ledlint.params import PIN_RESISTANCE, Missing, Origin, Param, rail_params, resistor_params
+from ledlint.parts import Kind, classify, transistor_pins
+from ledlint.recognise import DriverIC, LedCircuit, Reference, ReferenceKind, Sink
+from ledlint.supplies import ic_supply
+from ledlint.topology import ElementKind, drive_pin
 from ledlint.units import parse_current, parse_tolerance, parse_voltage
 
 # Silicon base-emitter voltage at 1-100 mA: 0.65 V nominal, 0.55-0.75 V over parts and current,
@@ -211,3 +215,72 @@ def driver_current(driver: DriverIC, graph: NetGraph,
     current = Range(v.nominal / rs.nominal, v.minimum / rs.maximum, v.maximum / rs.minimum)
     return SetCurrent(current, f"{driver.ref} V_ref {v.nominal * 1000:g} mV over {driver.sense[0]} = {rs.nominal:g} Ω",
                       ((driver.sense[0], rs),), v, drop, kind, limits), [], notes
+
+
+@dataclass(frozen=True)
+class BaseDrive:
+    """A controller pin driving the base of a bipolar switch in an LED's path."""
+
+    pin: Pin
+    transistor: str
+    resistor: str  # the base resistor between them, "" when the pin drives the base directly
+    current: Range  # A into (or out of) the pin: least (weakest pin, most resistance) to most
+    sourcing: bool  # an NPN's base is sourced; a PNP's base is sunk
+    high: Range  # V the pin drives from: its IC's supply (NPN) or the PNP's emitter rail
+    basis: str
+
+
+def base_drive(circuit: LedCircuit, graph: NetGraph, config: Config) -> list[BaseDrive]:
+    """Pins that drive a bipolar switch's base, directly or through one resistor, with the base
+    current they carry: (V − V_BE) / (R_pin + R_B), the emitter on ground (NPN) or on a known
+    rail (PNP). A base is a diode to the emitter, so without R_B only the pin's own output
+    resistance limits it."""
+    out = []
+    for e in circuit.elements:
+        comp = graph.component(e.ref)
+        if e.kind is not ElementKind.SWITCH or e.part not in (Kind.NPN, Kind.PNP) or comp is None:
+            continue
+        roles, _ = transistor_pins(comp)
+        base, emitter = comp.pin(roles.get("B", "")), comp.pin(roles.get("E", ""))
+        if base is None or emitter is None or not base.net or not emitter.net:
+            continue
+        rail = rail_params(emitter.net, config)
+        if rail is None or rail.ground is not (e.part is Kind.NPN) or (e.part is Kind.PNP and rail.nominal <= 0):
+            continue  # an emitter off a rail: a follower or a current sink, not a plain switch
+        found = _base_driver(graph, config, base.net, e.ref)
+        if found is None:
+            continue
+        pin, resistor, r_b = found
+        ic = graph.component(pin.ref)
+        sup = ic_supply(ic, config) if ic is not None else None
+        if sup is None and e.part is Kind.NPN:
+            continue
+        high = sup.volts if e.part is Kind.NPN and sup else Range(rail.nominal, rail.minimum, rail.maximum)
+        r = r_b + Range(PIN_RESISTANCE[1], PIN_RESISTANCE[0], PIN_RESISTANCE[2])
+        current = Range(max(high.nominal - VBE.nominal, 0.0) / r.nominal, max(high.minimum - VBE.maximum, 0.0) / r.maximum,
+                        max(high.maximum - VBE.minimum, 0.0) / r.minimum)
+        through = f"through {resistor}" if resistor else "with no base resistor"
+        basis = (f"{pin.ref} pin {pin.name or pin.number} drives {e.ref}'s base {through}: "
+                 f"({high.maximum:.3g} V − V_BE {VBE.minimum:g} V) / ({r.minimum:.3g} Ω with the pin's output "
+                 f"resistance {PIN_RESISTANCE[0]:g}-{PIN_RESISTANCE[2]:g} Ω assumed)")
+        out.append(BaseDrive(pin, e.ref, resistor, current, e.part is Kind.NPN, high, basis))
+    return out
+
+
+def _base_driver(graph: NetGraph, config: Config, net: str, transistor: str) -> tuple[Pin, str, Range] | None:
+    """The pin driving a base net: on the net itself, or beyond one resistor of known value."""
+    others = [p for p in graph.pins_on(net) if p.ref != transistor]
+    pin = drive_pin(graph, others)
+    if pin is not None:
+        return pin, "", Range.fixed(0.0)
+    for p in others:
+        comp = graph.component(p.ref)
+        far = graph.across(p.ref, p.number) if comp is not None and classify(comp) is Kind.RESISTOR else None
+        pin = drive_pin(graph, graph.pins_on(far)) if far else None
+        if pin is None or comp is None:
+            continue
+        rp = resistor_params(comp, config)
+        if not isinstance(rp.resistance, Param):
+            return None
+        return pin, comp.ref, Range.tolerance(rp.resistance.value, rp.tolerance.value)
+    return None

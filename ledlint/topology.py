@@ -11,6 +11,7 @@ from __future__ import annotations
 import re
 from collections import deque
 from dataclasses import dataclass, replace
+from typing import Iterable
 from enum import Enum
 
 from ledlint.config import Config
@@ -251,7 +252,6 @@ class Topology:
         if rail is not None:
             return Terminal(net, TerminalKind.GROUND if rail.ground else TerminalKind.RAIL, detail=rail.detail)
         others = self.other_pins.get(net, [])
-        drivers = []
         for pin in others:
             comp = self.graph.component(pin.ref)
             if comp is None:
@@ -263,14 +263,11 @@ class Topology:
                 if pin.name == "+":
                     return Terminal(net, TerminalKind.SUPPLY, pin, f"rectifier {pin.ref} + output")
                 return Terminal(net, TerminalKind.GROUND, pin, f"rectifier {pin.ref} - output")
-            if kind in (Kind.IC, Kind.OTHER) and pin.type in _DRIVE_RANK and len(comp.pins) > 3 \
-                    and not _SUPPLY_PIN.match(pin.name or ""):
-                drivers.append(pin)
         if is_supply_name(net):
             return Terminal(net, TerminalKind.SUPPLY, detail=f"net name {net!r}")
-        if drivers:
-            pin = max(drivers, key=lambda p: _DRIVE_RANK[p.type])
-            return Terminal(net, TerminalKind.PIN, pin, f"pin {pin.name or pin.number} of {pin.ref}")
+        driver = drive_pin(self.graph, others)
+        if driver is not None:
+            return Terminal(net, TerminalKind.PIN, driver, f"pin {driver.name or driver.number} of {driver.ref}")
         for pin in others:
             comp = self.graph.component(pin.ref)
             if comp is not None and classify(comp) is Kind.CONNECTOR:
@@ -301,6 +298,18 @@ class Topology:
     def segments_at(self, net: str) -> list[Segment]:
         """Segments with an end on a net (a segment with both ends there appears once)."""
         return [s for s in self.segments if net in (s.top, s.bottom)]
+
+
+def drive_pin(graph: NetGraph, pins: Iterable[Pin]) -> Pin | None:
+    """The controller pin among `pins` that drives their net, if any: an output or I/O pin of an
+    IC (not one of its supply pins), the strongest kind first."""
+    drivers = []
+    for pin in pins:
+        comp = graph.component(pin.ref)
+        if comp is not None and classify(comp) in (Kind.IC, Kind.OTHER) and pin.type in _DRIVE_RANK \
+                and len(comp.pins) > 3 and not _SUPPLY_PIN.match(pin.name or ""):
+            drivers.append(pin)
+    return max(drivers, key=lambda p: _DRIVE_RANK[p.type]) if drivers else None
 
 
 def _orient(chain: list[Element]) -> Segment:

@@ -34,7 +34,10 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ledlint.findings import Finding, Severity, Value
+from ledlint.analyse import Analysis, PinResult
+from ledlint.drive import BaseDrive
+from ledlint.findings import Finding, Severity, Value, quantity
+from ledlint.sizing import FORCED_GAIN, base_resistor
 from ledlint.registry import Rule, RuleContext
 from ledlint.rules._support import assumed_param, ballast_hint, circuit_assumptions, ids
 
@@ -47,16 +50,41 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
             if p.current_max <= p.limit.value:
                 continue
             verb = "sources" if p.sourcing else "sinks"
+            comp = ctx.board.parts.get(p.pin.ref)
+            assumed = tuple(assumed_param(f"{p.pin.ref} pin limit", p.limit, "A") + circuit_assumptions(a))
+            values = (Value("current", p.current_max, "A", p.limit.value, ">"), Value("limit", p.limit.value, "A"))
+            if p.base is not None:
+                yield _base_finding(ctx, a, p, p.base, values, assumed + (p.base.basis,), verb)
+                continue
             hint = ballast_hint(ctx, a, "")
             hint = f"{hint}; or switch the LED with a transistor" if hint else "switch the LED with a transistor or a driver"
-            comp = ctx.board.parts.get(p.pin.ref)
             yield ctx.finding(
                 a, Severity.ERROR, "{ic} pin {pin} ({net}) {verb} up to {current} for {leds}, above its limit of {limit}",
-                refs=(p.pin.ref, *a.circuit.refs), nets=(p.pin.net or "",),
-                values=(Value("current", p.current_max, "A", p.limit.value, ">"), Value("limit", p.limit.value, "A")),
-                assumed=tuple(assumed_param(f"{p.pin.ref} pin limit", p.limit, "A") + circuit_assumptions(a)), hint=hint,
+                refs=(p.pin.ref, *a.circuit.refs), nets=(p.pin.net or "",), values=values, assumed=assumed, hint=hint,
                 ic=p.pin.ref, pin=p.pin.name or p.pin.number, net=p.pin.net, verb=verb, leds=ids(a.circuit.leds),
                 line=comp.line if comp else None)
+
+
+def _base_finding(ctx: RuleContext, a: Analysis, p: PinResult, b: BaseDrive, values: tuple[Value, ...],
+                  assumed: tuple[str, ...], verb: str) -> Finding:
+    """A pin driving a switch's base: the base is a diode to the emitter, so only resistance
+    between them limits the pin's current."""
+    collector = max(r.current.maximum for r in a.leds) * max(len(a.circuit.branches), 1)
+    r_b = base_resistor(b, collector, p.limit.value)
+    where = f"between {p.pin.ref} pin {p.pin.name or p.pin.number} and {b.transistor}'s base"
+    if r_b is None:
+        hint = f"raise the base resistance {where}, or switch the LEDs with a logic-level MOSFET"
+    else:
+        fit = f"use {quantity(r_b, 'Ω')} (E24) for {b.resistor}" if b.resistor else f"put {quantity(r_b, 'Ω')} (E24) {where}"
+        hint = (f"{fit}: at least 1/{FORCED_GAIN} of the {quantity(collector, 'A')} LED current into the base, "
+                f"and the pin within its {quantity(p.limit.value, 'A')}")
+    base = f"through {b.resistor}" if b.resistor else "with no base resistor"
+    part = ctx.board.parts.get(p.pin.ref)
+    return ctx.finding(
+        a, Severity.ERROR, "{ic} pin {pin} ({net}) {verb} up to {current} into {q}'s base {base}, above its limit of "
+        "{limit}", refs=tuple(dict.fromkeys((p.pin.ref, b.transistor, *((b.resistor,) if b.resistor else ()), *a.circuit.refs))),
+        nets=(p.pin.net or "",), values=values, assumed=assumed, hint=hint, ic=p.pin.ref, pin=p.pin.name or p.pin.number,
+        net=p.pin.net, verb=verb, q=b.transistor, base=base, line=part.line if part else None, topic=b.transistor)
 
 
 RULE = Rule(
