@@ -18,7 +18,7 @@ from typing import Mapping
 import numpy as np
 
 from ledlint.config import Config
-from ledlint.drive import VCE_SAT, BaseDrive, SetCurrent, base_drive, driver_current, sink_current
+from ledlint.drive import NO_SENSE, VCE_SAT, BaseDrive, SetCurrent, base_drive, driver_current, sink_current
 from ledlint.engine import Branch as EBranch
 from ledlint.engine import Circuit as ECircuit
 from ledlint.batch import Job, solve_all
@@ -358,7 +358,7 @@ class _Analyser:
         missing = _unique(missing + unknown + sup_missing)
         if setc is None:
             return Analysis(c, missing=tuple(missing), assumptions=tuple(notes), supply=sup[0] if sup else None,
-                            ambiguity=ambiguity)
+                            ambiguity=ambiguity, unlimited=any(m.name == NO_SENSE for m in missing))
         res = [[self.resistor(e) for e in b.elements if e.kind is ElementKind.RESISTOR] for b in c.branches]
         if any(isinstance(r.resistance, Missing) for rs in res for r in rs):
             missing += [r.resistance for rs in res for r in rs if isinstance(r.resistance, Missing)]

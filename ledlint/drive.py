@@ -30,6 +30,9 @@ VGS = Range(2.0, 1.0, 3.0)
 # A silicon diode's forward drop at a few mA, as a base reference (common practice).
 VDIODE = Range(0.65, 0.55, 0.75)
 ZENER_TOLERANCE = 0.05  # the common ±5 % zener grade (from memory)
+# The name of what is missing when a sink or driver has a 0 Ω sense resistor: nothing then sets
+# the current, which is a fault (unlimited-led), not a gap.
+NO_SENSE = "sense resistance"
 VCE_SAT = Range(0.1, 0.05, 0.3)  # field-facts §9: 2N3904 ≤ 0.2 V at 10 mA, ≤ 0.3 V at 50 mA
 
 
@@ -96,8 +99,8 @@ def sink_current(sink: Sink, graph: NetGraph, config: Config, ambient: Range,
     if missing:
         return None, missing, notes
     if re_range.minimum <= 0:
-        missing.append(Missing("emitter resistance", f"{sink.transistor.ref} has no emitter resistance",
-                               "a current sink needs a resistor from emitter to ground"))
+        missing.append(Missing(NO_SENSE, f"{sink.transistor.ref} has no emitter resistance, so it sets no current",
+                               "a current sink needs a resistor from emitter to ground: R = (V_ref − V_BE) / I"))
         return None, missing, notes
     current = Range(v_emitter.nominal / re_range.nominal, v_emitter.minimum / re_range.maximum,
                     v_emitter.maximum / re_range.minimum)
@@ -212,6 +215,9 @@ def driver_current(driver: DriverIC, graph: NetGraph,
     rs, miss = _resistance(graph, config, driver.sense[:1])
     if miss:
         return None, miss, notes
+    if rs.minimum <= 0:
+        return None, [Missing(NO_SENSE, f"{driver.sense[0]}, {driver.ref}'s sense resistor, is 0 Ω: it sets no current",
+                              f"fit the sense resistor the current needs, R = V_ref / I = {v.nominal:g} V / I")], notes
     current = Range(v.nominal / rs.nominal, v.minimum / rs.maximum, v.maximum / rs.minimum)
     return SetCurrent(current, f"{driver.ref} V_ref {v.nominal * 1000:g} mV over {driver.sense[0]} = {rs.nominal:g} Ω",
                       ((driver.sense[0], rs),), v, drop, kind, limits), [], notes

@@ -71,10 +71,18 @@ def _text(component: Component) -> str:
     return " ".join((component.part, component.value, component.description, extra, keywords))
 
 
+# Two-pin LED symbols in house libraries name their ends in words or signs (common practice).
+_TWO_PIN_ALIASES = {"ANODE": "A", "CATHODE": "K", "+": "A", "-": "K"}
+
+
 def led_dies(component: Component) -> tuple[Die, ...]:
     """The dies of an LED package from its pin names; () when the pins do not read as an LED."""
     names = {_pin_name(p): p.number for p in component.pins}
     named = {n: num for n, num in names.items() if n and n not in _EXPOSED_PAD}
+    if len(named) == 2:  # house-library spellings of the two ends
+        spelled = {_TWO_PIN_ALIASES.get(n, n): num for n, num in named.items()}
+        if set(spelled) in ({"A", "K"}, {"A", "C"}):
+            named = {"A": spelled["A"], "K": spelled.get("K", spelled.get("C", ""))}
     if set(named) == {"A", "K"}:
         return (Die("", named["A"], named["K"]),)
     if set(named) <= {"1", "2"} and len(component.pins) == 2 and _WORD_LED.search(_text(component)):

@@ -356,7 +356,7 @@ class _Recogniser:
             if classify(comp) is not Kind.LED:
                 continue
             dies = led_dies(comp)
-            ids = [f"{comp.ref}:{d.name}" if d.name else comp.ref for d in dies]
+            ids = [f"{comp.ref}:{d.name}" if d.name else comp.ref for d in dies] or [comp.ref]
             if comp.dnp:
                 self.emit(CircuitKind.NOT_FITTED, ids, reason=f"{comp.ref} is marked do-not-populate")
                 continue
@@ -495,7 +495,7 @@ class _Recogniser:
                 if i not in self.done:
                     self.unrecognised([i], f"{i} is in a connection the tool does not follow")
         for comp in self.graph.netlist.components:
-            if classify(comp) is Kind.LED and not led_dies(comp):
+            if classify(comp) is Kind.LED and not led_dies(comp) and comp.ref not in self.done:
                 if len(comp.pins) < 2:  # the other pin is on no net, and no library part lists it
                     what = "only one pin of it is" if comp.pins else "none of its pins is"
                     self.unrecognised([comp.ref], f"{what} in the netlist: the others are on no net",

@@ -31,6 +31,7 @@ from __future__ import annotations
 
 from typing import Iterator
 
+from ledlint.drive import NO_SENSE
 from ledlint.findings import Finding, Severity
 from ledlint.registry import Rule, RuleContext
 from ledlint.rules._support import ids
@@ -41,6 +42,8 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
     reasons: dict[tuple[str, str], str] = {}
     for a in ctx.analyses:
         for m in a.missing + a.gaps:
+            if m.name == NO_SENSE:
+                continue  # not a gap but a fault: unlimited-led reports it
             groups.setdefault((m.name, m.fix), []).append(a)
             reasons.setdefault((m.name, m.fix), m.reason)
     for (name, fix), analyses in groups.items():

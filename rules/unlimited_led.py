@@ -32,6 +32,7 @@ from __future__ import annotations
 
 from typing import Iterator
 
+from ledlint.drive import NO_SENSE
 from ledlint.findings import Finding, Severity, Value
 from ledlint.registry import Rule, RuleContext
 from ledlint.rules._support import ballast_hint, circuit_assumptions, ids
@@ -49,6 +50,12 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
         template = ("{leds} " + verb + " across {src} and {ret} with nothing to limit the current: no resistor, "
                     "regulator or driver")
         hint = "add a series resistor sized for the wanted current: R = (V − Vf) / I"
+        zero = [m for m in a.missing if m.name == NO_SENSE]
+        if zero:  # a sink or driver whose sense resistor is 0 Ω: it regulates nothing
+            yield ctx.finding(a, Severity.ERROR, "{leds}: {why}, and nothing else limits the current",
+                              hint=zero[0].fix, leds=ids(c.leds), why=zero[0].reason,
+                              assumed=tuple(circuit_assumptions(a)))
+            continue
         if a.solved and a.leds:
             worst = max(a.leds, key=lambda r: r.current.maximum)
             values = (Value("model", worst.current.maximum, "A"),)

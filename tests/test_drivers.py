@@ -506,3 +506,15 @@ def test_too_small_balancing_resistor_gets_the_value_to_raise_it_to(tmp_path: Pa
     hinted = re.search(r"raise each string's balancing resistance to ([0-9.]+) Ω 1 % \(E24\)", f.hint)
     assert hinted, f.hint
     assert not of_rule(run(balanced_board(hinted.group(1) + " 1%"), tmp_path), "driver-parallel-strings")
+
+
+@pytest.mark.parametrize(("board", "words"), [
+    (lambda: ic_board(rsense="0R"), "R1, U1's sense resistor, is 0 Ω: it sets no current"),
+    (lambda: sink_board("zener", emitter="0R"), "Q1 has no emitter resistance, so it sets no current"),
+])
+def test_a_zero_ohm_sense_resistor_leaves_the_leds_unlimited(tmp_path: Path, board, words: str) -> None:
+    """I = V / R_sense (Ohm's law): with 0 Ω nothing sets the current, a fault and not a gap."""
+    result = run(board(), tmp_path)
+    f = only(result, "unlimited-led")
+    assert f.severity is Severity.ERROR and words in f.message and "nothing else limits the current" in f.message
+    assert of_rule(result, "missing-parameter") == []

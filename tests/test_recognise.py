@@ -206,3 +206,25 @@ def test_led_with_one_pin_in_the_netlist_is_not_silently_skipped() -> None:
             '(part "LED")))) (nets (net (code "1") (name "/A") (node (ref "D1") (pin "2")))))')
     [c] = recognise(NetGraph(parse_netlist(text, "one-pin.net")), Config())
     assert c.kind is CircuitKind.UNRECOGNISED and c.never_lights and "only one pin" in c.reason
+
+
+def test_house_library_led_pins_and_unfitted_odd_ones() -> None:
+    """LED ends named '+'/'-' or ANODE/CATHODE read as A/K (common practice in house libraries);
+    an unfitted LED whose pins read as neither is still one not-fitted circuit, once."""
+    text = '''(export (version "E") (design (tool "Eeschema 8.0.6"))
+  (components
+    (comp (ref "D1") (value "LED red") (libsource (lib "mylib") (part "LED_custom")))
+    (comp (ref "D2") (value "LED red") (libsource (lib "mylib") (part "LED_custom")))
+    (comp (ref "D3") (value "LED red") (libsource (lib "mylib") (part "LED_custom")) (property (name "dnp") (value "")))
+    (comp (ref "R1") (value "1k")) (comp (ref "R2") (value "1k")))
+  (nets
+    (net (code "1") (name "+5V") (node (ref "R1") (pin "1")) (node (ref "R2") (pin "1")))
+    (net (code "2") (name "/A1") (node (ref "R1") (pin "2")) (node (ref "D1") (pin "2") (pinfunction "+")))
+    (net (code "3") (name "/A2") (node (ref "R2") (pin "2")) (node (ref "D2") (pin "2") (pinfunction "ANODE")))
+    (net (code "4") (name "/X") (node (ref "D3") (pin "2") (pinfunction "X")))
+    (net (code "5") (name "GND") (node (ref "D1") (pin "1") (pinfunction "-"))
+      (node (ref "D2") (pin "1") (pinfunction "CATHODE")) (node (ref "D3") (pin "1") (pinfunction "Y")))))'''
+    cs = recognise(NetGraph(parse_netlist(text, "odd.net")), Config())
+    assert [(c.id, c.kind) for c in cs] == [("D1", CircuitKind.STRING), ("D2", CircuitKind.STRING),
+                                           ("D3", CircuitKind.NOT_FITTED)]
+    assert [c.source.net for c in cs[:2]] == ["+5V", "+5V"]
