@@ -213,13 +213,13 @@ class _Analyser:
         all_leds = [p for ps in branch_leds for p in ps]
         ambiguity = "; ".join(sorted({f"{p.id}: {p.ambiguity}" for p in all_leds if p.ambiguity}))
         for p in all_leds:
-            missing += list(p.unreadable) + [m for m in (p.vf, p.vf_max, p.vf_min) if isinstance(m, Missing)][:1]
+            missing += list(p.blocking) + [m for m in (p.vf, p.vf_max, p.vf_min) if isinstance(m, Missing)][:1]
         common = c.top + c.bottom + (c.branches[0].elements if c.kind is CircuitKind.STRING else ())
         common_res = [self.resistor(e) for e in common if e.kind is ElementKind.RESISTOR]
         branch_res = [[self.resistor(e) for e in b.elements if e.kind is ElementKind.RESISTOR]
                       for b in c.branches] if c.kind is CircuitKind.BANK else [[] for _ in c.branches]
         for rp in common_res + [r for rs in branch_res for r in rs]:
-            missing += list(rp.unreadable) + ([rp.resistance] if isinstance(rp.resistance, Missing) else [])
+            missing += [rp.resistance] if isinstance(rp.resistance, Missing) else []
         # A 0 Ω link is a wire, not a ballast: only real resistance limits the current.
         limited = any(_ohms(r) for r in common_res) or all(any(_ohms(r) for r in rs) for rs in branch_res)
         # Lit alone when each string has its own driver pin; otherwise all together.
@@ -275,7 +275,7 @@ class _Analyser:
                         min_ratio=min(s.min_ratio for s in solved),
                         sharing=solved[0].sharing if len(solved) == 1 else None,
                         loop_gain=max(gains) if gains else None, unlimited=unlimited, ambiguity=ambiguity,
-                        engine=engines, gaps=_gaps(results))
+                        engine=engines, gaps=_gaps(results, resistors))
 
     def resistor(self, e: Element) -> ResistorParams:
         return resistor_params(self.ctx.comp(e.ref), self.ctx.config)
@@ -347,7 +347,7 @@ class _Analyser:
         branch_leds = [self.led_params_of(b.elements) for b in c.branches]
         flat = [p for ps in branch_leds for p in ps]
         ambiguity = "; ".join(sorted({f"{p.id}: {p.ambiguity}" for p in flat if p.ambiguity}))
-        unknown = [m for p in flat for m in p.unreadable] + [m for p in flat for m in (p.vf,)
+        unknown = [m for p in flat for m in p.blocking] + [m for p in flat for m in (p.vf,)
                                                               if isinstance(m, Missing)][:1]
         if unknown:
             # The split between strings depends on the Vf spread more than on Vf itself: with the
@@ -389,7 +389,7 @@ class _Analyser:
         return Analysis(c, solved=True, missing=tuple(missing), assumptions=tuple(dict.fromkeys(notes)),
                         supply=sup[0] if sup else None, set_current=setc, leds=results, resistors=tuple(resistors),
                         nominal_current=setc.current.nominal / k, headroom_v=headroom, sharing=sharing,
-                        ambiguity=ambiguity, engine=(ec,), gaps=_gaps(results))
+                        ambiguity=ambiguity, engine=(ec,), gaps=_gaps(results, resistors))
 
     def driver_supply(self, c: LedCircuit, setc: SetCurrent | None, missing: list[Missing]) -> tuple[Supply, Range] | None:
         """What a current output works from: the LEDs' own supply for a sink or linear driver (the
@@ -477,9 +477,13 @@ def _ohms(rp: ResistorParams) -> bool:
     return not isinstance(rp.resistance, Param) or rp.resistance.value > 0
 
 
-def _gaps(results: tuple[LedResult, ...] | list[LedResult]) -> tuple[Missing, ...]:
-    """LED ratings that are not known, so current-margin could not judge those LEDs."""
-    return tuple(r.params.if_max for r in results if isinstance(r.params.if_max, Missing))
+def _gaps(results: tuple[LedResult, ...] | list[LedResult], resistors: tuple[ResistorResult, ...] | list[ResistorResult] = ()
+          ) -> tuple[Missing, ...]:
+    """What one check lacks while the rest ran: LED ratings that are not known (current-margin
+    could not judge those LEDs), and fields set but unreadable, for which a default stood in."""
+    unknown = [r.params.if_max for r in results if isinstance(r.params.if_max, Missing)]
+    unread = [m for r in results for m in r.params.unreadable if m not in r.params.blocking]
+    return tuple(dict.fromkeys(unknown + unread + [m for r in resistors for m in r.params.unreadable]))
 
 
 def _balancing(sol: Solution, branch_res: list[list[ResistorParams]], ambient: float) -> list[ResistorResult]:

@@ -144,9 +144,12 @@ def resistor_params(component: Component, config: Config) -> ResistorParams:
         q = parse_tolerance(component.value)
         tolerance = (Param(q.value, Origin.VALUE, f"value {component.value!r}") if q else
                      Param(DEFAULT_TOLERANCE, Origin.DEFAULT, "general-purpose resistor"))
-    power = _quantity(component, config, ("Power",), parse_power, bad)
+    unread_power = len(bad)
+    power: Param | Missing | None = _quantity(component, config, ("Power",), parse_power, bad)
     upper = DEFAULT_UPPER_CATEGORY_C
-    if power is None:
+    if len(bad) > unread_power:
+        power = bad.pop()  # set but unreadable: the rating is unknown, whatever the footprint says
+    elif power is None:
         q = parse_power(component.value)
         rating = rating_from_footprint(component.footprint)
         if q:
@@ -196,8 +199,13 @@ class LedParams:
         return f"{self.ref}:{self.die}" if self.die else self.ref
 
     @property
+    def blocking(self) -> tuple[Missing, ...]:
+        """Unreadable fields without which the LED cannot be solved: its forward voltage."""
+        return tuple(m for m in self.unreadable if m.name.lower().startswith("vf"))
+
+    @property
     def complete(self) -> bool:
-        return not self.unreadable and not any(isinstance(p, Missing) for p in (self.vf, self.vf_min, self.vf_max))
+        return not self.blocking and not any(isinstance(p, Missing) for p in (self.vf, self.vf_min, self.vf_max))
 
 
 def _die_key(key: str, die: str) -> tuple[str, ...]:
@@ -286,9 +294,12 @@ def led_params(component: Component, config: Config, die: str = "") -> LedParams
     vf_max = bound("Vf_max", tech.vf_max if tech else None, +1)
     vf_min = bound("Vf_min", None, -1)
 
+    unread = len(bad)
     if_max: Param | Missing | None = _quantity(component, config, _die_key("If_max", die), parse_current, bad)
     if_upper = None
-    if if_max is None:
+    if len(bad) > unread:
+        if_max = bad.pop()  # set but unreadable: the rating is unknown, not the package's default
+    elif if_max is None:
         if is_indicator_footprint(component.footprint):
             lo, if_upper = INDICATOR_IF_MAX
             if_max = Param(lo, Origin.DEFAULT, "small indicator LEDs are commonly rated 20-30 mA")

@@ -33,7 +33,9 @@ class Unknown:
 Parsed = Quantity | Unknown
 
 # ASCII digits only: re's \d also matches other scripts' digits, which no value field uses.
-_NUM = r"[0-9]+(?:\.[0-9]+)?|\.[0-9]+"
+# A decimal comma counts where it cannot be a thousands separator ("0,25W", not "1,000V"), and an
+# exponent is read ("2e-2A").
+_NUM = r"(?:[0-9]+(?:\.[0-9]+|,(?![0-9]{3}(?![0-9]))[0-9]+)?|\.[0-9]+)(?:[eE][+-]?[0-9]{1,4})?"
 _SIGNS = "+-\u2212"  # U+2212 is the typographic minus sign
 _SIGN = r"[+\-\u2212]"
 # A quantity starts a token: not inside a word, a signed number, a decimal comma or a fraction.
@@ -82,14 +84,14 @@ _POWER = re.compile(
     _START
     + r"(?:(?P<numer>[0-9]+)/(?P<denom>[0-9]+)|(?P<num>"
     + _NUM
-    + r"))\s*(?P<prefix>m)?W(?:atts?)?"
+    + r"))\s*(?P<prefix>m)?[Ww](?:atts?)?"
     + _END
 )
 _VOLTAGE = re.compile(
     _START + r"(?P<sign>" + _SIGN + r")?(?P<num>" + _NUM + r")"
-    r"(?:(?P<glued>V(?P<tail>[0-9]+))|\s*(?P<prefix>[mkµμu])?V(?:DC|dc)?)" + _END
+    r"(?:(?P<glued>[Vv](?P<tail>[0-9]+))|\s*(?P<prefix>[mkµμu])?[Vv](?:DC|dc)?)" + _END
 )
-_CURRENT = re.compile(_START + r"(?P<num>" + _NUM + r")\s*(?P<prefix>[mµμun])?A" + _END)
+_CURRENT = re.compile(_START + r"(?P<num>" + _NUM + r")\s*(?P<prefix>[mµμun])?[Aa]" + _END)
 _VF = re.compile(r"\s*(?:V[fF]\s*[=:]?\s*)?(?P<v>\S.*?)\s*(?:(?:@|\bat\b)\s*(?P<i>\S.*?))?\s*")
 _THERMAL = re.compile(r"\s*(?P<num>" + _NUM + r")\s*(?:(?:K|°\s*C|\u2103|C)\s*/\s*W)?\s*")
 _TEMPERATURE = re.compile(
@@ -97,8 +99,15 @@ _TEMPERATURE = re.compile(
 )
 _PREFIX_EXPONENT = {"": 0, "m": -3, "k": 3, "µ": -6, "μ": -6, "u": -6, "n": -9}
 _CASE_SIZE = re.compile("|".join(sorted(CHIP_SIZES)))
+_BLANKS = re.compile(r"\s{2,}")
 _TCR = re.compile(r"[0-9]+\s*ppm(?:/(?:K|°C))?")
 _VOLTAGE_RATING = re.compile(r"(?:" + _NUM + r")\s*k?V")
+
+
+def _squeeze(text: str) -> str:
+    """Runs of blanks as one: the patterns allow blanks around a number, and a long run would
+    make each search start over it again (quadratic time on hostile input)."""
+    return _BLANKS.sub(" ", text) if "  " in text or "\t" in text else text
 
 
 def _finite(number: float) -> float | None:
@@ -110,6 +119,10 @@ def _scaled(mantissa: str, exponent: int) -> float | None:
 
     Underflow counts as out of range: a non-zero mantissa never comes back as zero.
     """
+    mantissa = mantissa.replace(",", ".")
+    if "e" in mantissa.lower():  # "2e-2": fold the written exponent into the scale
+        mantissa, written = re.split("[eE]", mantissa)
+        exponent += int(written)
     number = float(f"{mantissa}e{exponent}")
     if not math.isfinite(number) or (number == 0 and any(digit in "123456789" for digit in mantissa)):
         return None
@@ -157,6 +170,9 @@ def _leading_resistance(text: str) -> tuple[Quantity, str] | Unknown:
     if match.group("rkm_letter") and after[:1] in _TOLERANCE_LETTERS and _VALUE_END.match(after[1:]):
         # The letter code's own tolerance suffix, "4K7J": read as "4K7 J" (IEC 60062, from memory).
         after = " " + after
+    if re.match(r"/[0-9]+\s*[Ww]", after) and not match.group("si_prefix") and not match.group("unit"):
+        # "1/4W" is a power rating, not 1 Ω with extras.
+        return Unknown(text, f"'{stripped}' is a power rating, not a resistance")
     if not _VALUE_END.match(after):
         if after[0] in "-\u2212~" and after[1:2].isdigit():
             return Unknown(text, f"'{stripped}' is a range, not one resistance")
@@ -255,6 +271,7 @@ def parse_tolerance(text: str) -> Quantity | None:
 
     Letters count alone or after a resistance value ("4K7 F"); percentages count anywhere.
     """
+    text = _squeeze(text)
     stripped = text.strip()
     if stripped in _TOLERANCE_LETTERS:
         return Quantity(_TOLERANCE_LETTERS[stripped], stripped)
@@ -268,6 +285,7 @@ def parse_tolerance(text: str) -> Quantity | None:
 
 def parse_power(text: str) -> Quantity | None:
     """Read a power in watts: "0.25W", "1/4 W", "250mW", also inside value text ("1K, 1/4W 5%")."""
+    text = _squeeze(text)
     found = []
     for match in _POWER.finditer(text):
         exponent = -3 if match.group("prefix") else 0
@@ -286,10 +304,11 @@ def parse_power(text: str) -> Quantity | None:
 
 def parse_voltage(text: str) -> Quantity | None:
     """Read a voltage in volts: "3.0V", "12 V", "-12V", "250mV", and the letter form "3V3"."""
+    text = _squeeze(text)
     found = []
     for match in _VOLTAGE.finditer(text):
         if match.group("glued") is not None:
-            if "." in match.group("num"):
+            if any(c in match.group("num") for c in ".,eE"):
                 continue
             number = _scaled(f"{match.group('num')}.{match.group('tail')}", 0)
         else:
@@ -302,6 +321,7 @@ def parse_voltage(text: str) -> Quantity | None:
 
 def parse_current(text: str) -> Quantity | None:
     """Read a current in amperes: "20mA", "0.35A", "350 mA", "500µA"."""
+    text = _squeeze(text)
     found = []
     for match in _CURRENT.finditer(text):
         number = _scaled(match.group("num"), _PREFIX_EXPONENT[match.group("prefix") or ""])

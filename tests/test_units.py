@@ -449,3 +449,40 @@ def test_every_numeric_resistor_value_in_the_real_corpus_is_read(corpus: list[Pa
             else:
                 assert isinstance(parsed, Unknown) and parsed.reason, (path.name, component.ref)
     assert seen > 0
+
+
+# Hand-written field forms: the unit letter in lower case, a decimal comma (ISO 80000-1 allows
+# either decimal sign), and an exponent (common practice in spreadsheets and CSV exports).
+@pytest.mark.parametrize(("parse", "text", "value"), [
+    (parse_power, "1/4w", 0.25),
+    (parse_power, "0,25W", 0.25),
+    (parse_voltage, "2.0v", 2.0),
+    (parse_voltage, "3v3", 3.3),
+    (parse_voltage, "3,3V", 3.3),
+    (parse_current, "20ma", 0.020),
+    (parse_current, "0,02A", 0.020),
+    (parse_current, "2e-2A", 0.020),
+])
+def test_hand_written_unit_forms(parse, text: str, value: float) -> None:
+    q = parse(text)
+    assert q is not None and q.value == pytest.approx(value, rel=1e-12)
+
+
+def test_a_comma_that_may_be_thousands_is_still_refused() -> None:
+    assert parse_voltage("1,000V") is None  # 1000 V or 1.000 V: not a guess to make
+
+
+@pytest.mark.parametrize("text", ["1/4W", "1/2 W"])
+def test_a_power_rating_in_the_value_is_not_a_resistance(text: str) -> None:
+    # "1/4W" would otherwise read as 1 Ω with an extra: a false alarm waiting to happen.
+    parsed = parse_resistance(text)
+    assert isinstance(parsed, Unknown) and "power rating" in parsed.reason
+
+
+@given(st.text(alphabet=" \t0123456789.,%VAWm/kR", max_size=60))
+def test_runs_of_blanks_do_not_change_what_is_read(text: str) -> None:
+    # Blanks are squeezed before the patterns run (hostile input would make them quadratic):
+    # the value read must be what the text with single blanks reads.
+    single = re.sub(r"\s+", " ", text)
+    for parse in (parse_tolerance, parse_power, parse_voltage, parse_current):
+        assert getattr(parse(text), "value", None) == getattr(parse(single), "value", None)

@@ -120,3 +120,26 @@ def test_pin_drive_level_is_vdd_even_with_a_higher_battery(tmp_path: Path) -> No
     result = run_board(_pin_driven("+3V6", "+3V3"), tmp_path)
     a = result.board.analyses[0]
     assert a.solved and a.supply.volts.nominal == 3.3 and "runs from +3V3" in a.supply.basis[0]
+
+
+def test_an_unreadable_field_stops_only_the_check_that_needs_it(tmp_path: Path) -> None:
+    """Missing means missing, for that parameter alone: a Power field that cannot be read leaves
+    the rating unknown (resistor-overload says so) and the current check still runs. 47 Ω from
+    +5V into a 2.0 V red LED is (5 − 2) / 47 = 64 mA (Ohm's law), over its 20 mA If_max."""
+    b = Board("unread", "missing-parameter fixture")
+    b.resistor("R1", "47", "+5V", "Net-(D1-A)", Power="a quarter watt")
+    b.led("D1", "red", "Net-(D1-A)", "GND", Vf="2.0V@20mA", If_max="20mA", Rth="0")
+    result = run_board(b, tmp_path)
+    assert only(result, "current-margin").severity is Severity.ERROR
+    f = only(result, "resistor-overload")
+    assert f.severity is Severity.INFO and "Power = 'a quarter watt' on R1 cannot be read" in f.message
+    # An If_max that cannot be read is not replaced by a package default: it is unknown.
+    b2 = Board("unread2", "missing-parameter fixture")
+    b2.resistor("R1", "47", "+5V", "Net-(D1-A)", footprint="Resistor_SMD:R_1206_3216Metric")
+    b2.led("D1", "red", "Net-(D1-A)", "GND", Vf="2.0V@20mA", If_max="twenty", Rth="0")
+    (tmp_path / "b2").mkdir()
+    result = run_board(b2, tmp_path / "b2")
+    assert of_rule(result, "current-margin") == []
+    gap = only(result, "missing-parameter")
+    assert gap.message.startswith("If_max unknown") and "If_max = 'twenty' on D1 cannot be read" in gap.message
+    assert of_rule(result, "resistor-overload")  # 64 mA² × 44.65 Ω = 183 mW in a 250 mW 1206: still checked
