@@ -95,19 +95,36 @@ def _parser() -> argparse.ArgumentParser:
 
 
 def write_whole(out: str, destination: str | None) -> None:
-    """Write all of a report or none of it: to a temporary file first, then renamed into place."""
+    """Write all of a report or none of it: to a temporary file first, then renamed into place.
+
+    A symlink is followed (its target is replaced, the link kept); a pipe or device is written
+    to as it is, since renaming a file over it would destroy it. A new file gets the usual
+    permissions (the umask's), a replaced one keeps its own."""
     if destination is None:
-        sys.stdout.write(out)
-        sys.stdout.flush()
+        try:
+            sys.stdout.write(out)
+            sys.stdout.flush()
+        except BrokenPipeError:
+            raise
+        except OSError as exc:
+            raise LedlintError(f"cannot write the report to standard output: {failure_reason(exc)}") from None
         return
-    target = Path(destination)
+    target = Path(os.path.realpath(destination))
+    if target.exists() and not target.is_file():
+        try:
+            with open(target, "w", encoding="utf-8") as fh:
+                fh.write(out)
+        except OSError as exc:
+            raise LedlintError(f"cannot write the report: {failure_reason(exc)}", destination) from None
+        return
     try:
-        fd, tmp = tempfile.mkstemp(dir=target.parent if str(target.parent) else ".", prefix=".ledlint-")
+        fd, tmp = tempfile.mkstemp(dir=target.parent, prefix=".ledlint-")
     except OSError as exc:
         raise LedlintError(f"cannot write the report here: {failure_reason(exc)}", destination) from None
     try:
         with os.fdopen(fd, "w", encoding="utf-8") as fh:
             fh.write(out)
+        os.chmod(tmp, target.stat().st_mode & 0o7777 if target.exists() else 0o666 & ~_umask())
         os.replace(tmp, target)
     except OSError as exc:
         Path(tmp).unlink(missing_ok=True)
@@ -115,6 +132,12 @@ def write_whole(out: str, destination: str | None) -> None:
     except BaseException:
         Path(tmp).unlink(missing_ok=True)
         raise
+
+
+def _umask() -> int:
+    mask = os.umask(0)  # the only way to read it is to set it
+    os.umask(mask)
+    return mask
 
 
 @contextmanager

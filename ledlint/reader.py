@@ -38,7 +38,7 @@ def read_netlist(path: str | Path) -> Netlist:
     """Read a netlist file; every problem with the input is an InputError."""
     name = str(path)
     try:
-        data = Path(path).read_bytes()
+        data = _read_bytes(Path(path), name)
     except FileNotFoundError:
         raise InputError("no such file", name) from None
     except IsADirectoryError:
@@ -47,6 +47,25 @@ def read_netlist(path: str | Path) -> Netlist:
         raise InputError(f"cannot read: {failure_reason(exc)}", name) from None
     text, notes = decode(data, name)
     return parse_netlist(text, name, notes)
+
+
+# Far beyond any netlist (a 20,000-part board is 15 MB), and a stop for endless inputs such as
+# a device or a pipe that never ends.
+MAX_BYTES = 1 << 30
+
+
+def _read_bytes(path: Path, name: str) -> bytes:
+    """The file's bytes, refusing a binary stream from its first block rather than reading it all."""
+    with open(path, "rb") as fh:
+        head = fh.read(1 << 16)
+        nul = head.find(b"\0")
+        if nul >= 0:
+            line, col = byte_position(head, nul)
+            raise InputError("binary file (NUL byte), not a KiCad netlist", name, line, col)
+        data = head + fh.read(MAX_BYTES + 1 - len(head))
+    if len(data) > MAX_BYTES:
+        raise InputError(f"larger than {MAX_BYTES >> 30} GiB: not a KiCad netlist", name)
+    return data
 
 
 def decode(data: bytes, path: str = "") -> tuple[str, list[Note]]:
