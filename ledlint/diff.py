@@ -13,6 +13,7 @@ from typing import Any
 from ledlint import __version__
 from ledlint.analyse import Analysis
 from ledlint.findings import Finding
+from ledlint.model import Component
 from ledlint.recognise import LedCircuit
 from ledlint.report.json_doc import finding_json
 from ledlint.report.markdown import cell, posix_path, refs_text, table
@@ -83,6 +84,45 @@ class Moved:
 
 
 @dataclass(frozen=True)
+class Edit:
+    """A change to one of a circuit's parts, as the schematic shows it: what a reviewer looks for
+    behind a current that moved ("R8 value 330 → 100")."""
+
+    ref: str
+    what: str  # "value", "footprint", "fitted", a field's name; "part" when added or removed
+    old: str | None  # None: the part or field is new
+    new: str | None  # None: it was removed
+
+    def text(self) -> str:
+        if self.what == "part":
+            return f"{self.ref} {'added' if self.old is None else 'removed'}"
+        return f"{self.ref} {self.what} {_shown(self.old)} → {_shown(self.new)}"
+
+
+def _shown(text: str | None) -> str:
+    return "—" if text is None else repr(text) if not text or text != text.strip() else text
+
+
+def edits(old: Component | None, new: Component | None) -> tuple[Edit, ...]:
+    """What differs between two versions of one part."""
+    if old is None or new is None:
+        ref = (new or old).ref  # type: ignore[union-attr]  # one side is always there
+        return (Edit(ref, "part", None if old is None else "", None if new is None else ""),)
+    out = [Edit(new.ref, what, a, b) for what, a, b in (("value", old.value, new.value),
+                                                         ("footprint", old.footprint, new.footprint),
+                                                         ("fitted", _fitted(old), _fitted(new))) if a != b]
+    for name in dict.fromkeys([*old.fields, *new.fields]):
+        a, b = old.fields.get(name), new.fields.get(name)
+        if a != b:
+            out.append(Edit(new.ref, name, a, b))
+    return tuple(out)
+
+
+def _fitted(c: Component) -> str:
+    return "no (DNP)" if c.dnp else "yes"
+
+
+@dataclass(frozen=True)
 class CircuitDiff:
     status: Status
     old: LedCircuit | None
@@ -91,6 +131,7 @@ class CircuitDiff:
     appeared: tuple[Finding, ...] = ()
     gone: tuple[Finding, ...] = ()
     elsewhere: tuple[str, ...] = ()  # added or removed: circuits on the other side that hold some of its LEDs
+    edits: tuple[Edit, ...] = ()  # changed: what was edited in its parts
 
     @property
     def id(self) -> str:
@@ -214,20 +255,26 @@ def compare(old: FileResult, new: FileResult) -> NetlistDiff:
     def holding(c: LedCircuit | None, side: tuple[LedCircuit, ...]) -> tuple[str, ...]:
         return tuple(o.id for o in side if set(_leds(o)) & set(_leds(c)))
 
+    def parts_edited(before: LedCircuit, after: LedCircuit) -> tuple[Edit, ...]:
+        refs = dict.fromkeys([*after.refs, *before.refs])
+        return tuple(e for ref in refs for e in edits(old.netlist.component(ref), new.netlist.component(ref)))
+
     out = []
     for before, after in _pairs(old.board.circuits, new.board.circuits):
         moved = _moved(old_analyses.get(before.id) if before else None, new_analyses.get(after.id) if after else None)
         appeared, gone = _difference(findings(old, before), findings(new, after))
         elsewhere: tuple[str, ...] = ()  # for an added or removed circuit
+        changes = parts_edited(before, after) if before and after else ()
         if before is None:
             status, elsewhere = Status.ADDED, holding(after, old.board.circuits)
         elif after is None:
             status, elsewhere = Status.REMOVED, holding(before, new.board.circuits)
-        elif moved or appeared or gone or before.kind != after.kind or set(_leds(before)) != set(_leds(after)):
+        elif (moved or appeared or gone or changes or before.kind != after.kind
+              or set(_leds(before)) != set(_leds(after))):
             status = Status.CHANGED
         else:
             status = Status.UNCHANGED
-        out.append(CircuitDiff(status, before, after, moved, appeared, gone, elsewhere))
+        out.append(CircuitDiff(status, before, after, moved, appeared, gone, elsewhere, changes))
     ids_old = {c.id for c in old.board.circuits}
     ids_new = {c.id for c in new.board.circuits}
     appeared, gone = _difference((f for f in old.findings if f.circuit not in ids_old),
@@ -264,6 +311,7 @@ def render_text(d: NetlistDiff) -> str:
         if c.status is Status.UNCHANGED:
             continue
         out.append(f"{_MARK[c.status]} {c.id}  {c.kind}  ({', '.join(_leds(c.new or c.old))}) {_status(c)}")
+        out += [f"    edit {e.text()}" for e in c.edits]
         width = max((len(m.label) for m in c.moved), default=0)
         out += [f"    {m.label:{width}}  {m.side(m.old)} → {m.side(m.new)}" for m in c.moved]
         out += [f"    {_finding_line('+', f)}" for f in c.appeared] + [f"    {_finding_line('-', f)}" for f in c.gone]
@@ -289,6 +337,7 @@ def document(d: NetlistDiff) -> dict[str, Any]:
             "status": c.status.value, "id": c.id, "old_id": c.old.id if c.old else None,
             "new_id": c.new.id if c.new else None, "kind": c.kind, "leds": list(_leds(c.new or c.old)),
             "leds_added": list(c.leds_added), "leds_removed": list(c.leds_removed), "elsewhere": list(c.elsewhere),
+            "edits": [{"ref": e.ref, "what": e.what, "old": e.old, "new": e.new} for e in c.edits],
             "moved": [{"quantity": m.quantity.value, "subject": m.subject, "unit": m.unit,
                        "old": _reading_json(m.old), "new": _reading_json(m.new)} for m in c.moved],
             "findings_appeared": [finding_json(f) for f in c.appeared],
@@ -311,6 +360,9 @@ def render_markdown(d: NetlistDiff) -> str:
         if c.status is Status.UNCHANGED:
             continue
         rows.append(f"| {c.id} | {cell(_status(c))} | {cell(c.kind)} | | |")
+        rows += [f"| {c.id} | edit {cell(e.ref)} {cell(e.what)} | | {cell(_shown(e.old))} | {cell(_shown(e.new))} |"
+                 for e in c.edits if e.what != "part"]
+        rows += [f"| {c.id} | {cell(e.text())} | | | |" for e in c.edits if e.what == "part"]
         rows += [f"| {c.id} | {cell(m.label)} | | {m.side(m.old)} | {m.side(m.new)} |" for m in c.moved]
     if rows:
         out += table(("circuit", "change", "kind", "was", "now"), rows)

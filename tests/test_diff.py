@@ -115,7 +115,9 @@ def _fixed_diff() -> diff.NetlistDiff:
             Moved(Quantity.CURRENT, "D1", diff.Reading(0.194, 0.170, 0.219), diff.Reading(0.0197, 0.0172, 0.0224)),
             Moved(Quantity.DISSIPATION, "R1", diff.Reading(2.15), diff.Reading(0.243)),
             Moved(Quantity.HEADROOM, "", diff.Reading(7.89), diff.Reading(9.15))),
-            gone=(finding("current-margin", Severity.ERROR, "D1 can carry 219 mA | more than 30 mA", "D1", "R1"),)),
+            gone=(finding("current-margin", Severity.ERROR, "D1 can carry 219 mA | more than 30 mA", "D1", "R1"),),
+            edits=(diff.Edit("R1", "value", "47", "510"), diff.Edit("R1", "Power", None, "1/4W"),
+                   diff.Edit("Q9", "part", None, ""))),
         diff.CircuitDiff(Status.CHANGED, circuit("D3", bank, "D3", "D4"), circuit("D3", string, "D3"), (
             Moved(Quantity.CURRENT, "D4", diff.Reading(0.0149, 0.000131, 0.034), None),),
             appeared=(finding("resistor-overload", Severity.WARNING, "R3 at 62.2 mW, 50% of <its> rating", "R3"),)),
@@ -148,3 +150,14 @@ def test_cli_diff(panel_files) -> None:
     missing = run(panel_files["A"], "boards/nowhere.net")
     assert missing.returncode == 2 and "boards/nowhere.net" in missing.stderr and "Traceback" not in missing.stderr
     assert run(panel_files["A"]).returncode == 2  # NEW is required
+
+
+def test_the_edits_behind_a_change_are_named(a_to_b) -> None:
+    """Revision B of the workshop panel gives R1 510 Ω for A's 47 Ω and a 1210 footprint, and
+    splits R3's bank with a new R4 (tests/conftest.py: workshop_panel)."""
+    by = _by_id(a_to_b)
+    assert [e.text() for e in by["D1"].edits] == [
+        "R1 value 47 → 510", "R1 footprint Resistor_SMD:R_0603_1608Metric → Resistor_SMD:R_1210_3225Metric"]
+    assert "R3 value 100 → 200" in [e.text() for e in by["D3"].edits]
+    text = diff.render_text(a_to_b)
+    assert "    edit R1 value 47 → 510" in text
