@@ -104,16 +104,22 @@ def _hint(ctx: RuleContext, a: Analysis, limit: float) -> str:
     fix = balancing_for(a, limit)
     if fix is None:
         return text
-    if fix.drop > _MAX_BALANCING_DROP:
+    # The drop must come out of the output's headroom, or the output stops regulating; where the
+    # headroom is not known, more than a couple of volts wastes more than it balances.
+    room = a.headroom_v if a.headroom_v is not None else _MAX_BALANCING_DROP
+    if fix.drop > room:
+        why = (f"more than the {quantity(room, 'V')} of headroom the output has" if a.headroom_v is not None
+               else "too much to waste")
         return text + (f" (a balancing resistor would have to drop {quantity(fix.drop, 'V')} per string to hold "
-                       f"the split within {quantity(limit, '%')})")
+                       f"the split within {quantity(limit, '%')}: {why})")
     factor = ctx.option_of("resistor-overload", "design_factor", 0.5)
     chip = chip_for(fix.power_max / factor)
     size = f", rated at least {quantity(fix.power_max / factor, 'W')} ({chip[0]} or larger)" if chip else ""
     part = f"{quantity(fix.resistance, 'Ω')} {fix.tolerance * 100:g} % (E24)"
     how = (f"raise each string's balancing resistance to {part}" if fix.replaces else
            f"put {part} in series with each string")
-    return text + (f", or {how}: it drops {quantity(fix.drop, 'V')} and brings the split to "
+    left = f", leaving {quantity(room - fix.drop, 'V')} of headroom," if a.headroom_v is not None else ""
+    return text + (f", or {how}: it drops {quantity(fix.drop, 'V')}{left} and brings the split to "
                    f"{quantity(fix.spread, '%')} (Monte Carlo, as above){size}")
 
 

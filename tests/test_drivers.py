@@ -518,3 +518,35 @@ def test_a_zero_ohm_sense_resistor_leaves_the_leds_unlimited(tmp_path: Path, boa
     f = only(result, "unlimited-led")
     assert f.severity is Severity.ERROR and words in f.message and "nothing else limits the current" in f.message
     assert of_rule(result, "missing-parameter") == []
+
+
+def wide_board(balancing: str, per_string: int = 1) -> Board:
+    """Two strings of white LEDs with a wide Vf spread (2.8-3.4 V) on one 35.7 mA output."""
+    b = Board("wide", "Demo strings with a wide Vf spread")
+    b.add("U1", "CCSINK", "CCSINK", "Package_TO_SOT_SMD:SOT-23-5", {"1": "+12V", "2": "/OUT", "3": "/CS", "4": "GND"},
+          **{**LINEAR, "vref_tolerance": "2%"})
+    b.resistor("R1", "5R6 1%", "/CS", "GND")
+    for s in range(2):
+        nets = ["+12V"] + [f"/S{s}_{k}" for k in range(1, per_string)] + [f"/B{s}"]
+        for k in range(per_string):
+            b.led(f"D{s * per_string + k + 1}", "white", nets[k], nets[k + 1], Vf="3.1V@20mA", Vf_min="2.8V",
+                  Vf_max="3.4V", If_max="30mA")
+        b.resistor(f"R{s + 2}", balancing, f"/B{s}", "/OUT", footprint="Resistor_SMD:R_2512_6332Metric")
+    return b
+
+
+def test_a_balancing_drop_past_two_volts_is_offered_when_the_headroom_takes_it(tmp_path: Path) -> None:
+    """One white LED per string on +12V: the output has volts to spare, so the hint names the
+    resistor and what headroom it leaves (headroom − I·R, Ohm's law); fitted, it balances."""
+    f = only(run(wide_board("0R"), tmp_path), "driver-parallel-strings")
+    m = re.search(r"put ([0-9.]+) Ω 1 % \(E24\) in series with each string: it drops ([0-9.]+) V, leaving "
+                  r"([0-9.]+) (m?)V of headroom,", f.hint)
+    assert m, f.hint
+    ohms, drop = float(m.group(1)), float(m.group(2))
+    assert drop > 2.0 and drop == pytest.approx(ohms * 0.2 / 5.6 / 2, rel=0.02)  # I·R at the equal share
+    assert not of_rule(run(wide_board(m.group(1) + " 1%"), tmp_path), "driver-parallel-strings")
+
+
+def test_a_balancing_drop_past_the_headroom_is_called_impossible(tmp_path: Path) -> None:
+    f = only(run(wide_board("0R", per_string=3), tmp_path), "driver-parallel-strings")
+    assert "of headroom the output has" in f.hint and "in series with each string" not in f.hint
