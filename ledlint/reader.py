@@ -68,6 +68,14 @@ def _read_bytes(path: Path, name: str) -> bytes:
     return data
 
 
+def _numbered_functions(nodes: dict[tuple[str, str], _NodeInfo]) -> bool:
+    """KiCad 10's pin functions without its tool line (a nightly, an edited file): every named
+    pin written as name_number, at least three of them."""
+    functions = [(info.function, pin) for (_, pin), info in nodes.items() if info.function]
+    suffixed = [f for f, pin in functions if f.endswith("_" + pin) and f != "_" + pin]
+    return len(suffixed) >= 3 and all(f == pin or f.endswith("_" + pin) for f, pin in functions)
+
+
 def decode(data: bytes, path: str = "") -> tuple[str, list[Note]]:
     """Bytes to text. KiCad writes UTF-8 (kicad-netlist-format.md §6.8).
 
@@ -176,6 +184,7 @@ class _Builder:
         self.kicad10 = "groups" in sections or "variants" in sections or _tool_major(tool) >= 10
         self._index_libparts(sections.get("libparts"))
         nodes, net_items = self._read_nets(sections.get("nets"))
+        self.kicad10 = self.kicad10 or _numbered_functions(nodes)
         components = self._read_components(sections.get("components"), nodes)
         nets = self._assemble_nets(net_items, components)
         sheets = tuple(_sheet(_children(s)) for s in _sublists(design, "sheet"))

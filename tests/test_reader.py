@@ -135,6 +135,17 @@ def test_a_net_without_a_name_gets_one_a_report_can_show() -> None:
     assert [note.message for note in n.notes] == ["a net without a name; reported as (unnamed net 7)"]
 
 
+def test_kicad10_pin_functions_are_known_without_the_tool_line() -> None:
+    # KiCad 10 writes pinfunction as name_number (kicad-netlist-format.md §3.2); a file that lost
+    # its tool line, or a nightly's, shows it by every named pin carrying its number.
+    n = parse_netlist('(export (version "E") (components (comp (ref "D1") (value "red")) (comp (ref "U1") (value "M")))'
+                      ' (nets (net (code "1") (name "A") (node (ref "D1") (pin "2") (pinfunction "A_2")))'
+                      ' (net (code "2") (name "B") (node (ref "D1") (pin "1") (pinfunction "K_1"))'
+                      ' (node (ref "U1") (pin "3") (pinfunction "PA0_3")) (node (ref "U1") (pin "4") (pinfunction "4")))))')
+    assert {p.number: p.name for p in n.component("D1").pins} == {"1": "K", "2": "A"}
+    assert {p.number: p.name for p in n.component("U1").pins} == {"3": "PA0", "4": ""}
+
+
 def test_unknown_version_and_unknown_sections_are_tolerated() -> None:
     n = parse_netlist('(export (version "F") (future (x)) (components) (nets))')
     assert n.components == () and "unknown netlist version" in n.notes[0].message
