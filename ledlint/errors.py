@@ -2,7 +2,10 @@
 
 from __future__ import annotations
 
+import re
 from pathlib import Path
+
+_LINE_BREAK = re.compile(rb"\r\n|\n|\r")
 
 
 class LedlintError(Exception):
@@ -32,9 +35,9 @@ class ConfigError(LedlintError):
 
 def byte_position(data: bytes, index: int) -> tuple[int, int]:
     """Line and column (1-based, in characters) of byte `index` of UTF-8 text."""
-    line = data.count(b"\n", 0, index) + 1
-    start = data.rfind(b"\n", 0, index) + 1
-    return line, len(data[start:index].decode("utf-8", errors="replace")) + 1
+    breaks = list(_LINE_BREAK.finditer(data, 0, index))  # CRLF, LF or a lone CR, as sexpr.Locator counts
+    start = breaks[-1].end() if breaks else 0
+    return len(breaks) + 1, len(data[start:index].decode("utf-8", errors="replace")) + 1
 
 
 def read_utf8(path: str | Path, what: str, error: type[LedlintError] = LedlintError) -> str:

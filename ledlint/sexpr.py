@@ -68,7 +68,8 @@ class Locator:
 
     def line_col(self, offset: int) -> tuple[int, int]:
         if self._starts is None:
-            self._starts = [0] + [m.end() for m in re.finditer("\n", self._text)]
+            # CRLF, LF, or the old Mac lone CR: each ends a line, as an editor would count it.
+            self._starts = [0] + [m.end() for m in re.finditer("\r\n|\n|\r", self._text)]
         line = bisect_right(self._starts, offset)
         return line, offset - self._starts[line - 1] + 1
 

@@ -199,3 +199,11 @@ def test_random_netlist_shaped_trees_only_raise_the_readers_error(parts: list[st
         parse_netlist('(export (version "E") ' + " ".join(parts) + ")", "random.net")
     except InputError:
         pass
+
+
+def test_old_mac_line_endings_still_give_line_numbers() -> None:
+    # A lone CR ends a line (the classic Mac convention, as editors count it).
+    text = '(export (version "E")\r  (components\r    (comp (ref "R1") (value "1k))))\r'
+    with pytest.raises(InputError) as info:
+        parse_netlist(text, "cr.net")
+    assert info.value.line == 3
