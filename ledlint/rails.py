@@ -85,7 +85,15 @@ def _last_segment(name: str) -> str:
 
 
 def _words(name: str) -> list[str]:
-    return [word for word in name.upper().split("_") if word]
+    """The name's words; a supply word glued to its voltage ("VCC3V3", "VDD5V") counts as two."""
+    out = []
+    for word in name.upper().split("_"):
+        m = _GLUED_SUPPLY.fullmatch(word)
+        out += [m.group(1), m.group(2)] if m and m.group(1) in _SUPPLY_WORDS else [word] if word else []
+    return out
+
+
+_GLUED_SUPPLY = re.compile(r"(V[A-Z]+)([0-9]+(?:V[0-9]*|\.[0-9]+V))")
 
 
 @lru_cache(maxsize=16384)  # a board asks about the same few nets for every circuit on them

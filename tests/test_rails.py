@@ -33,6 +33,9 @@ def dc_rail(name: str) -> Rail:
         ("P3V3", 3.3),  # the P-for-positive spelling of house styles (common practice)
         ("P5V0", 5.0),
         ("P12V", 12.0),
+        ("VCC3V3", 3.3),  # a supply word glued to its voltage (common practice)
+        ("VCC5V", 5.0),
+        ("VDD1V8", 1.8),
         ("VDD_3V3", 3.3),
         ("+5VA", 5.0),
         ("5VSB", 5.0),
