@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from ledlint.findings import Finding, Severity
+from ledlint.report import printable
 from ledlint.report.markdown import posix_path, summary, unused_waiver
 from ledlint.report.text import SAFETY
 from ledlint.run import RunResult
@@ -13,7 +14,7 @@ _MAX_REFS = 6  # in an annotation title; the message names the rest
 
 def escape_data(text: str) -> str:
     """The runner's escapes for a command's message: %, CR and LF."""
-    return text.replace("%", "%25").replace("\r", "%0D").replace("\n", "%0A")
+    return printable(text.replace("%", "%25").replace("\r", "%0D").replace("\n", "%0A"))
 
 
 def escape_property(text: str) -> str:

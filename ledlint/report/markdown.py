@@ -7,6 +7,7 @@ from pathlib import Path
 
 from ledlint.config import Waiver
 from ledlint.findings import Finding
+from ledlint.report import printable
 from ledlint.report.text import SAFETY
 from ledlint.run import RunResult
 
@@ -41,7 +42,7 @@ def summary(result: RunResult) -> str:
 
 def cell(text: str) -> str:
     """Text safe inside a table cell: one line, pipes escaped, no stray HTML."""
-    return " ".join(text.split()).replace("\\", "\\\\").replace("|", "\\|").replace("<", "&lt;")
+    return printable(" ".join(text.split())).replace("\\", "\\\\").replace("|", "\\|").replace("<", "&lt;")
 
 
 def refs_text(refs: tuple[str, ...]) -> str:

@@ -11,6 +11,7 @@ from rich.table import Table
 
 from ledlint.findings import Finding, Severity, quantity
 from ledlint.parts import led_parts
+from ledlint.report import printable
 from ledlint.recognise import CircuitKind
 from ledlint.report.circuits import CircuitRow, row
 from ledlint.run import FileResult, RunResult
@@ -30,7 +31,7 @@ _INDENT = 8
 
 def _wrapped(label: str, body: str, width: int, style: str = "") -> list[str]:
     """Lines with a right-aligned label and a hanging indent, escaped for rich markup."""
-    lines = textwrap.wrap(body, width=max(width - _INDENT, 20), break_on_hyphens=False) or [""]
+    lines = textwrap.wrap(printable(body), width=max(width - _INDENT, 20), break_on_hyphens=False) or [""]
     pad = " " * (_INDENT - 1 - len(label))
     head = f"{pad}[{style}]{escape(label)}[/] " if style else f"{pad}{escape(label)} "
     out = [head + escape(lines[0])]
@@ -77,10 +78,11 @@ def _circuit_table(rows: list[CircuitRow]) -> Table:
             nom, rng = "—", escape(_short(r.note)) if r.note else "—"
         else:
             nom, rng = _amps(r.current[0]), f"{_amps(r.current[1])} – {_amps(r.current[2])}"
-        table.add_row(r.id, _SHORT.get(r.kind, r.kind), leds, escape(f"{r.supply_net or (f'rail {r.rail}' if r.rail else '?')} → {r.return_net or '?'}"),
-                      ", ".join(r.ballast) or "—", nom, rng,
-                      "—" if r.resistor_power_w is None else quantity(r.resistor_power_w, "W"),
-                      "—" if r.headroom_v is None else quantity(r.headroom_v, "V"))
+        ends = f"{r.supply_net or (f'rail {r.rail}' if r.rail else '?')} → {r.return_net or '?'}"
+        cells = (r.id, _SHORT.get(r.kind, r.kind), leds, escape(ends), ", ".join(r.ballast) or "—", nom, rng,
+                 "—" if r.resistor_power_w is None else quantity(r.resistor_power_w, "W"),
+                 "—" if r.headroom_v is None else quantity(r.headroom_v, "V"))
+        table.add_row(*map(printable, cells))
     return table
 
 
@@ -112,10 +114,10 @@ def _file(console: Console, fr: FileResult, circuits: bool) -> None:
     n = fr.netlist
     parts, dies = led_parts(n.components), sum(len(c.leds) for c in fr.board.circuits)
     leds = f"{parts} LED(s)" + (f" ({dies} dies)" if dies > parts else "")
-    console.print(f"[bold]{escape(fr.path)}[/]  {leds} in {len(fr.board.circuits)} circuit(s), "
-                  f"{_coverage(fr)} · {escape(n.tool or 'unknown tool')}", soft_wrap=True)
+    console.print(f"[bold]{escape(printable(fr.path))}[/]  {leds} in {len(fr.board.circuits)} circuit(s), "
+                  f"{_coverage(fr)} · {escape(printable(n.tool or 'unknown tool'))}", soft_wrap=True)
     for note in n.notes:
-        console.print(f"  [dim]reader note, line {note.line}: {escape(note.message)}[/]")
+        console.print(f"  [dim]reader note, line {note.line}: {escape(printable(note.message))}[/]")
     if fr.findings:
         console.print("\n".join(line for f in fr.findings for line in _finding(f, console.width)), soft_wrap=True)
     if fr.waived:
@@ -125,7 +127,7 @@ def _file(console: Console, fr: FileResult, circuits: bool) -> None:
     if circuits and fr.board.analyses:
         _print_wide(console, _circuit_table([row(fr.path, a) for a in fr.board.analyses]))
     for c in fr.board.cautions:
-        console.print(f"[bold red]CAUTION[/] {escape(c)}. {SAFETY}")
+        console.print(f"[bold red]CAUTION[/] {escape(printable(c))}. {SAFETY}")
     console.print()
 
 
