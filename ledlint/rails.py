@@ -86,7 +86,7 @@ def _last_segment(name: str) -> str:
 
 def _words(name: str) -> list[str]:
     """The name's words; a supply word glued to its voltage ("VCC3V3", "VDD5V") counts as two."""
-    out = []
+    out: list[str] = []
     for word in name.upper().split("_"):
         m = _GLUED_SUPPLY.fullmatch(word)
         out += [m.group(1), m.group(2)] if m and m.group(1) in _SUPPLY_WORDS else [word] if word else []
