@@ -126,7 +126,7 @@ def test_led_counts_are_parts_with_dies_added(monkeypatch: pytest.MonkeyPatch) -
     result = check(["sample_boards/rgb-status.net"])
     doc = json.loads(json_doc.render(result))
     assert doc["files"][0]["leds"] == 4  # D1 (RGB), D2, D3, D4 in the board's netlist
-    assert "  4 LED(s) (6 dies) in 4 circuit(s)" in text.render(result, width=100)
+    assert "  13 parts, 14 nets, 4 LED(s) (6 dies) in 4 circuit(s)" in text.render(result, width=100)
 
 
 def test_control_characters_from_a_netlist_never_reach_the_terminal(monkeypatch: pytest.MonkeyPatch,

@@ -114,7 +114,8 @@ def _file(console: Console, fr: FileResult, circuits: bool) -> None:
     n = fr.netlist
     parts, dies = led_parts(n.components), sum(len(c.leds) for c in fr.board.circuits)
     leds = f"{parts} LED(s)" + (f" ({dies} dies)" if dies > parts else "")
-    console.print(f"[bold]{escape(printable(fr.path))}[/]  {leds} in {len(fr.board.circuits)} circuit(s), "
+    console.print(f"[bold]{escape(printable(fr.path))}[/]  {len(n.components)} parts, {len(n.nets)} nets, "
+                  f"{leds} in {len(fr.board.circuits)} circuit(s), "
                   f"{_coverage(fr)} · {escape(printable(n.tool or 'unknown tool'))}", soft_wrap=True)
     for note in n.notes:
         console.print(f"  [dim]reader note, line {note.line}: {escape(printable(note.message))}[/]")
