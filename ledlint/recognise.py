@@ -160,6 +160,10 @@ class _Recogniser:
 
     def emit(self, kind: CircuitKind, leds: list[str], **kw: object) -> None:
         leds = sorted(dict.fromkeys(leds), key=_natural)
+        if isinstance(kw.get("branches"), tuple):
+            # Parallel strings in reference order, not the export's: a re-export that reorders the
+            # netlist then gives the same Monte Carlo draws per string, so the same report.
+            kw["branches"] = tuple(sorted(kw["branches"], key=_branch_key))  # type: ignore[call-overload]
         first = self.comp(leds[0].split(":")[0])
         self.done.update(leds)
         self.out.append(LedCircuit(id=leds[0], kind=kind, leds=tuple(leds), line=first.line, sheet=first.sheet,
@@ -502,6 +506,11 @@ class _Recogniser:
                                       never_lights=True)
                 else:
                     self.unrecognised([comp.ref], f"{comp.ref}'s pins do not read as anode and cathode")
+
+
+def _branch_key(branch: Branch) -> tuple:
+    leds = branch.leds or branch.elements
+    return _natural(leds[0].id) if leds else ()
 
 
 def recognise(graph: NetGraph, config: Config) -> tuple[LedCircuit, ...]:
