@@ -45,6 +45,9 @@ def _supply_pins(comp: Component) -> list[Pin]:
             and (p.type is PinType.POWER_IN or re.match(r"^(V|AV|DV|IOV)(CC|DD)", p.name, re.I))]
 
 
+_NOMINAL = "its voltage, e.g. nominal = 3.3"  # an example, not a guess at this rail
+
+
 def _rail_fix(net: str, keys: str, what: str = "it") -> str:
     """How to give a rail its voltage, in words a user can turn into TOML without guessing."""
     return f"set {what} in ledlint.toml: a table [rails.\"{net}\"] with {keys}"
@@ -108,13 +111,13 @@ def end_voltage(graph: NetGraph, config: Config, t: Terminal | None, high: bool,
             nets = list(dict.fromkeys(p.net for p in pins if p.net))  # the one setting the output level first
             where = f"its supply pins are on {', '.join(nets)}" if nets else "no supply pin of it is connected"
             missing.append(Missing("supply voltage", f"{comp.ref} drives LEDs, and {where}, with no voltage "
-                                   "known", _rail_fix(nets[0] if nets else "NET", "nominal = 3.3")))
+                                   "known", _rail_fix(nets[0] if nets else "NET", _NOMINAL)))
             return None
         basis.append(f"{t.detail} sources its supply: {sup.basis}; output resistance "
                      f"{pr.minimum:g}-{pr.maximum:g} Ω assumed")
         return sup.volts, pr
     if t.kind is TerminalKind.SUPPLY:
-        fix = _rail_fix(t.net, "nominal = 5.0")
+        fix = _rail_fix(t.net, _NOMINAL)
         if comp is not None and classify(comp) is Kind.BRIDGE:
             # A bridge's output peaks at √2 × the AC RMS (less two diode drops); unsmoothed it
             # also falls to 0 V each half cycle, which a DC rail cannot describe.

@@ -99,12 +99,14 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
         need = a.supply.volts.minimum - a.headroom_v  # type: ignore[union-attr]
         yield ctx.finding(
             a, Severity.ERROR, "{out} cannot hold its current: the input can fall to {vin}, but {who} needs {need} "
-            "(string at maximum Vf, plus {sense} sense and {dropout} dropout); short by {short}",
+            "(string at maximum Vf and the coldest ambient, {cold}, plus {sense} sense and {dropout} dropout); "
+            "short by {short}",
             values=(Value("vin", a.supply.volts.minimum, "V"), Value("need", need, "V"),  # type: ignore[union-attr]
                     Value("short", -a.headroom_v, "V", 0.0, ">"), Value("sense", setc.sense_voltage.maximum, "V"),
                     Value("dropout", setc.dropout.maximum, "V")),
             out=out, who=(f"each of its {len(c.branches)} strings (such as {ids([e.id for e in c.branches[0].leds])})"
                           if len(c.branches) > 1 else f"the string {ids(c.leds)}"),
+            cold=f"{a.engine[0].ambient.minimum:g} °C" if a.engine else "cold",
             assumed=assumed, hint="fewer LEDs per string, a higher input, or a boost driver")
 
 

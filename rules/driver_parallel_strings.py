@@ -85,7 +85,8 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                   Value("worst", s.worst_current, "A", if_max.value if isinstance(if_max, Param) else None, ">"),
                   Value("total", a.set_current.current.nominal, "A")]  # type: ignore[union-attr]
         template = ("{n} strings share {output}'s {total}: {share} each on paper, but the split varies by up to "
-                    "{spread} of the mean ({samples} Monte Carlo samples) and the string with {led} can take {worst}")
+                    "{spread} of the mean (99th percentile of {samples} Monte Carlo samples) and the string with {led} can "
+                    "take {worst}")
         if isinstance(if_max, Param):
             values.append(Value("if_max", if_max.value, "A"))
             template += ", above its If_max of {if_max}" if over else " (If_max {if_max})"

@@ -62,8 +62,11 @@ def row(path: str, a: Analysis) -> CircuitRow:
         note = "not computed: " + "; ".join(dict.fromkeys(m.name for m in a.missing)) + " unknown"
     headroom = a.headroom_v if a.solved and current is not None else None
     rail = a.rail or None
-    return CircuitRow(path, c.id, c.kind.value, c.leds, ballast, c.source.net if c.source else None,
-                      c.ret.net if c.ret else None, rail, current, power, headroom, a.solved,
+    # Strings each switched by their own pin end on those pins' nets: name them, not "?".
+    far = [b.far.net for b in c.branches if b.far is not None]
+    ends = (", ".join(far[:3]) + (f" … ({len(far)})" if len(far) > 3 else "")) if far else None
+    return CircuitRow(path, c.id, c.kind.value, c.leds, ballast, c.source.net if c.source else ends,
+                      c.ret.net if c.ret else ends, rail, current, power, headroom, a.solved,
                       note)
 
 

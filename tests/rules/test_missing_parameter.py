@@ -42,7 +42,7 @@ def test_rail_of_unknown_voltage(tmp_path: Path) -> None:
     assert f.nets == ("VCC", "GND")
     assert f.message.startswith("supply voltage unknown")
     # Following the hint literally makes a configuration that gets the circuit checked.
-    m = re.search(r"a table (\[rails\.[^\]]+\]) with (.*)$", f.hint)
+    m = re.search(r"a table (\[rails\.[^\]]+\]) with its voltage, e\.g\. (.*)$", f.hint)
     assert m and m.group(1) == '[rails."VCC"]'
     config = m.group(1) + "\n" + m.group(2).replace(" and ", "\n") + "\n"
     followed = run_board(indicator("red", rail="VCC"), tmp_path, config)
