@@ -18,7 +18,7 @@ from typing import Mapping
 import numpy as np
 
 from ledlint.config import Config
-from ledlint.drive import NO_SENSE, VCE_SAT, BaseDrive, SetCurrent, base_drive, driver_current, sink_current
+from ledlint.drive import NO_SENSE, VCE_SAT, SwitchDrive, SetCurrent, switch_drives, driver_current, sink_current
 from ledlint.engine import Branch as EBranch
 from ledlint.engine import Circuit as ECircuit
 from ledlint.batch import Job, solve_all
@@ -72,7 +72,7 @@ class PinResult:
     limit: Param
     current_max: float
     sourcing: bool
-    base: BaseDrive | None = None  # the pin drives a switch's base rather than the LEDs themselves
+    base: SwitchDrive | None = None  # the pin drives a switch's base rather than the LEDs themselves
 
 
 @dataclass(frozen=True)
@@ -110,6 +110,7 @@ class Analysis:
     gaps: tuple[Missing, ...] = ()  # what one check lacks while the rest ran (an LED's unknown If_max)
     ambient_basis: str = ""  # the ambient range the corners span, and where it comes from
     rail: str = ""  # the rail net the current comes from (a driver pin's: its IC's supply)
+    drives: tuple[SwitchDrive, ...] = ()  # the pins that switch its transistors
 
     @property
     def reversed(self) -> bool:
@@ -265,9 +266,10 @@ class _Analyser:
                 results = tuple(replace(r, reverse_v=max(r.reverse_v, reverse)) for r in results)
                 assumptions.append("AC supply: the whole reverse peak may fall on one LED (leakage decides)")
         results = _guarded(c, results, assumptions)
+        drives = tuple(switch_drives(c, self.ctx.graph, self.ctx.config))
         pins = tuple(p for s in solved for p in s.pins) + tuple(
             PinResult(b.pin, pin_limit(self.ctx.comp(b.pin.ref), self.ctx.config), b.current.maximum, b.sourcing, b)
-            for b in base_drive(c, self.ctx.graph, self.ctx.config))
+            for b in drives if b.current is not None)
         gains = [s.loop_gain for s in solved if s.loop_gain is not None]
         return Analysis(c, solved=True, assumptions=tuple(dict.fromkeys(assumptions)), supply=first_supply,
                         leds=results, resistors=resistors, pins=pins,
@@ -275,7 +277,7 @@ class _Analyser:
                         min_ratio=min(s.min_ratio for s in solved),
                         sharing=solved[0].sharing if len(solved) == 1 else None,
                         loop_gain=max(gains) if gains else None, unlimited=unlimited, ambiguity=ambiguity,
-                        engine=engines, gaps=_gaps(results, resistors))
+                        engine=engines, gaps=_gaps(results, resistors), drives=drives)
 
     def resistor(self, e: Element) -> ResistorParams:
         return resistor_params(self.ctx.comp(e.ref), self.ctx.config)

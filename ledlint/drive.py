@@ -224,52 +224,65 @@ def driver_current(driver: DriverIC, graph: NetGraph,
 
 
 @dataclass(frozen=True)
-class BaseDrive:
-    """A controller pin driving the base of a bipolar switch in an LED's path."""
+class SwitchDrive:
+    """A controller pin driving the base or gate of a switch in an LED's path."""
 
     pin: Pin
     transistor: str
-    resistor: str  # the base resistor between them, "" when the pin drives the base directly
-    current: Range  # A into (or out of) the pin: least (weakest pin, most resistance) to most
+    part: Kind  # NPN, PNP, NMOS or PMOS
+    resistor: str  # the base or gate resistor between them, "" when the pin drives it directly
+    io: Range | None  # V: the driving IC's supply, the pin's high level
+    rail: Range  # V: the emitter's or source's rail
+    current: Range | None  # A into (or out of) the pin for a bipolar base: least to most; None for a gate
     sourcing: bool  # an NPN's base is sourced; a PNP's base is sunk
-    high: Range  # V the pin drives from: its IC's supply (NPN) or the PNP's emitter rail
     basis: str
 
+    @property
+    def high_side(self) -> bool:
+        return self.part in (Kind.PNP, Kind.PMOS)
 
-def base_drive(circuit: LedCircuit, graph: NetGraph, config: Config) -> list[BaseDrive]:
-    """Pins that drive a bipolar switch's base, directly or through one resistor, with the base
-    current they carry: (V − V_BE) / (R_pin + R_B), the emitter on ground (NPN) or on a known
-    rail (PNP). A base is a diode to the emitter, so without R_B only the pin's own output
-    resistance limits it."""
+
+def switch_drives(circuit: LedCircuit, graph: NetGraph, config: Config) -> list[SwitchDrive]:
+    """Pins that drive a switch's base or gate, directly or through one resistor, with the base
+    current a bipolar switch draws: (V − V_BE) / (R_pin + R_B), the emitter on ground (NPN) or on
+    a known rail (PNP). A base is a diode to the emitter, so without R_B only the pin's own
+    output resistance limits it; a gate draws no steady current."""
     out = []
     for e in circuit.elements:
         comp = graph.component(e.ref)
-        if e.kind is not ElementKind.SWITCH or e.part not in (Kind.NPN, Kind.PNP) or comp is None:
+        if e.kind is not ElementKind.SWITCH or comp is None:
             continue
         roles, _ = transistor_pins(comp)
-        base, emitter = comp.pin(roles.get("B", "")), comp.pin(roles.get("E", ""))
-        if base is None or emitter is None or not base.net or not emitter.net:
+        mos = e.part in (Kind.NMOS, Kind.PMOS)
+        control, common = (comp.pin(roles.get(r, "")) for r in (("G", "S") if mos else ("B", "E")))
+        if control is None or common is None or not control.net or not common.net:
             continue
-        rail = rail_params(emitter.net, config)
-        if rail is None or rail.ground is not (e.part is Kind.NPN) or (e.part is Kind.PNP and rail.nominal <= 0):
-            continue  # an emitter off a rail: a follower or a current sink, not a plain switch
-        found = _base_driver(graph, config, base.net, e.ref)
+        rail = rail_params(common.net, config)
+        high_side = e.part in (Kind.PNP, Kind.PMOS)
+        if rail is None or rail.ground is high_side or (high_side and rail.nominal <= 0):
+            continue  # an emitter or source off a rail: a follower or a current sink, not a plain switch
+        found = _base_driver(graph, config, control.net, e.ref)
         if found is None:
             continue
         pin, resistor, r_b = found
         ic = graph.component(pin.ref)
         sup = ic_supply(ic, config) if ic is not None else None
-        if sup is None and e.part is Kind.NPN:
-            continue
-        high = sup.volts if e.part is Kind.NPN and sup else Range(rail.nominal, rail.minimum, rail.maximum)
-        r = r_b + Range(PIN_RESISTANCE[1], PIN_RESISTANCE[0], PIN_RESISTANCE[2])
-        current = Range(max(high.nominal - VBE.nominal, 0.0) / r.nominal, max(high.minimum - VBE.maximum, 0.0) / r.maximum,
-                        max(high.maximum - VBE.minimum, 0.0) / r.minimum)
-        through = f"through {resistor}" if resistor else "with no base resistor"
-        basis = (f"{pin.ref} pin {pin.name or pin.number} drives {e.ref}'s base {through}: "
-                 f"({high.maximum:.3g} V − V_BE {VBE.minimum:g} V) / ({r.minimum:.3g} Ω with the pin's output "
-                 f"resistance {PIN_RESISTANCE[0]:g}-{PIN_RESISTANCE[2]:g} Ω assumed)")
-        out.append(BaseDrive(pin, e.ref, resistor, current, e.part is Kind.NPN, high, basis))
+        io = sup.volts if sup else None
+        rails = Range(rail.nominal, rail.minimum, rail.maximum)
+        high = io if not high_side else rails
+        current, basis = None, ""
+        if not mos and high is not None:
+            r = r_b + Range(PIN_RESISTANCE[1], PIN_RESISTANCE[0], PIN_RESISTANCE[2])
+            current = Range(max(high.nominal - VBE.nominal, 0.0) / r.nominal,
+                            max(high.minimum - VBE.maximum, 0.0) / r.maximum,
+                            max(high.maximum - VBE.minimum, 0.0) / r.minimum)
+            through = f"through {resistor}" if resistor else "with no base resistor"
+            basis = (f"{pin.ref} pin {pin.name or pin.number} drives {e.ref}'s base {through}: "
+                     f"({high.maximum:.3g} V − V_BE {VBE.minimum:g} V) / ({r.minimum:.3g} Ω with the pin's output "
+                     f"resistance {PIN_RESISTANCE[0]:g}-{PIN_RESISTANCE[2]:g} Ω assumed)")
+        elif io is not None:
+            basis = f"{pin.ref} pin {pin.name or pin.number} drives {e.ref}'s gate; {sup.basis if sup else ''}"
+        out.append(SwitchDrive(pin, e.ref, e.part, resistor, io, rails, current, not high_side, basis))
     return out
 
 

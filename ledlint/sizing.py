@@ -15,7 +15,7 @@ import numpy as np
 from ledlint.analyse import Analysis
 from ledlint.engine import Circuit, Range, corners, monte_carlo
 from ledlint.engine.corners import ballast_scan
-from ledlint.drive import VBE, BaseDrive
+from ledlint.drive import VBE, SwitchDrive
 from ledlint.eseries import ESeries, nearest_above, nearest_below, series_values
 from ledlint.params import PIN_RESISTANCE
 from ledlint.ratings import chip_for, derated_power
@@ -163,12 +163,15 @@ def headroom_fix(analysis: Analysis, ratio: float) -> HeadroomFix | None:
 FORCED_GAIN = 10  # I_C / I_B for a bipolar switch driven hard into saturation (common practice)
 
 
-def base_resistor(drive: BaseDrive, collector_max: float, limit: float) -> float | None:
+def base_resistor(drive: SwitchDrive, collector_max: float, limit: float) -> float | None:
     """The largest E24 base resistor that still saturates the switch at the forced gain with the
     weakest drive, if it also keeps the pin within `limit` with the strongest; else None."""
     r_pin = Range(PIN_RESISTANCE[1], PIN_RESISTANCE[0], PIN_RESISTANCE[2])
-    largest = (drive.high.minimum - VBE.maximum) * FORCED_GAIN / max(collector_max, 1e-9) - r_pin.maximum
-    least = (drive.high.maximum - VBE.minimum) / limit - r_pin.minimum
+    high = drive.rail if drive.high_side else drive.io
+    if high is None:
+        return None
+    largest = (high.minimum - VBE.maximum) * FORCED_GAIN / max(collector_max, 1e-9) - r_pin.maximum
+    least = (high.maximum - VBE.minimum) / limit - r_pin.minimum
     if largest <= 0:
         return None
     r = nearest_below(largest, ESeries.E24)

@@ -35,7 +35,7 @@ from __future__ import annotations
 from typing import Iterator
 
 from ledlint.analyse import Analysis, PinResult
-from ledlint.drive import BaseDrive
+from ledlint.drive import SwitchDrive
 from ledlint.findings import Finding, Severity, Value, quantity
 from ledlint.sizing import FORCED_GAIN, base_resistor
 from ledlint.registry import Rule, RuleContext
@@ -65,7 +65,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                 line=comp.line if comp else None)
 
 
-def _base_finding(ctx: RuleContext, a: Analysis, p: PinResult, b: BaseDrive, values: tuple[Value, ...],
+def _base_finding(ctx: RuleContext, a: Analysis, p: PinResult, b: SwitchDrive, values: tuple[Value, ...],
                   assumed: tuple[str, ...], verb: str) -> Finding:
     """A pin driving a switch's base: the base is a diode to the emitter, so only resistance
     between them limits the pin's current."""

@@ -1,0 +1,108 @@
+"""switch-drive: a transistor switch its controller pin cannot turn off, or cannot turn fully on.
+
+What it flags
+    A P-MOSFET or PNP high-side switch whose source or emitter sits on a rail higher than the
+    controller pin can reach: at the pin's high level the gate or base is still well below
+    the source, so the switch stays on and the LEDs stay lit (error). And an NPN low-side
+    switch whose base current is too small for the LED current it carries: it runs in its
+    linear region, dropping volts instead of saturating (warning past a current gain of 200,
+    error past 1,000).
+
+Why it matters
+    Both pass a connectivity check and both ship: the first as an indicator that never goes
+    out, the second as LEDs dimmer than designed and a transistor that heats, differing from
+    board to board with the transistor's gain.
+
+Example
+    Q1, a P-MOSFET on +12V, its gate on a 3.3 V controller pin: V_GS is at most 3.47 − 11.4 =
+    −7.9 V, always on. Fixed: an NPN or N-MOSFET level shifter pulling the gate down, with a
+    pull-up from gate to +12V. Q2, an NPN with 1 MΩ from a 3.3 V pin: about 2.6 µA of base
+    current for 9 mA of LED current, a gain of 3,500. Fixed: 2 kΩ.
+
+Fix
+    Shift the level (a small N-channel or NPN stage driving the high-side switch, with a
+    pull-up to the switch's own rail), or run the LEDs from a rail the pin can reach; for a
+    starved base, the E24 base resistor in the hint.
+
+Formula
+    Off needs V_G ≥ V_S − |V_GS(th)| (P-MOSFET, |V_GS(th)| ≥ 1 V) or V_B ≥ V_E − V_BE (PNP,
+    V_BE ≥ 0.55 V); the pin's high level is its IC's supply at its maximum. Saturation needs
+    I_B ≥ I_C / β: I_B = (V_OH − V_BE) / (R_B + R_pin) at the weakest corner.
+
+Source
+    Device physics (common practice): a MOSFET conducts once |V_GS| passes its threshold, of
+    1-2.5 V for small-signal parts (field-facts §9); small-signal bipolar transistors have a
+    current gain of about 100 to 300 at 10 mA, the highest gain groups up to about 800 (from
+    memory).
+"""
+
+from __future__ import annotations
+
+from typing import Iterator
+
+from ledlint.drive import VBE, VGS
+from ledlint.findings import Finding, Severity, Value, quantity
+from ledlint.model import PinType
+from ledlint.parts import Kind
+from ledlint.registry import Rule, RuleContext
+from ledlint.rules._support import circuit_assumptions, ids
+from ledlint.sizing import base_resistor
+
+# I_C / I_B past which a small-signal switch is not assured to saturate (typical gains reach about
+# 200 at 10 mA), and past which none will (the highest gain groups stop near 800) (from memory).
+GAIN_WARNING, GAIN_ERROR = 200, 1000
+
+
+def check(ctx: RuleContext) -> Iterator[Finding]:
+    for a in ctx.analyses:
+        if not a.solved:
+            continue
+        c = a.circuit
+        for d in a.drives:
+            pin = f"{d.pin.ref} pin {d.pin.name or d.pin.number}"
+            refs = tuple(dict.fromkeys((d.transistor, d.pin.ref, *((d.resistor,) if d.resistor else ()), *c.refs)))
+            part = ctx.board.parts.get(d.transistor)
+            line = part.line if part else None
+            if d.high_side and d.io is not None and d.pin.type is not PinType.OPEN_COLLECTOR:
+                threshold = VGS.minimum if d.part is Kind.PMOS else VBE.minimum
+                if d.io.maximum < d.rail.minimum - threshold:
+                    what, terminal = ("gate", "source") if d.part is Kind.PMOS else ("base", "emitter")
+                    yield ctx.finding(
+                        a, Severity.ERROR, "{q} cannot be turned off: its {terminal} is on a rail of at least {rail} "
+                        "but {pin} drives its {what} no higher than {io}, so {leds} {stay} lit",
+                        refs=refs, nets=tuple(n for n in (d.pin.net,) if n), line=line,
+                        values=(Value("rail", d.rail.minimum, "V"), Value("io", d.io.maximum, "V",
+                                                                         d.rail.minimum - threshold, "<")),
+                        q=d.transistor, terminal=terminal, pin=pin, what=what, leds=ids(c.leds),
+                        stay="stays" if len(c.leds) == 1 else "stay",
+                        assumed=(f"{'|V_GS(th)|' if d.part is Kind.PMOS else 'V_BE'} at least {threshold:g} V",
+                                 d.basis, *circuit_assumptions(a)),
+                        hint=f"drive {d.transistor}'s {what} through a small N-MOSFET or NPN stage with a pull-up "
+                             f"to its {terminal}'s rail, or run the LEDs from a rail {pin} can reach")
+            if d.part is Kind.NPN and d.current is not None and d.current.minimum > 0:
+                collector = max(r.current.maximum for r in a.leds) * max(len(c.branches), 1)
+                gain = collector / d.current.minimum
+                if gain <= GAIN_WARNING:
+                    continue
+                severity = Severity.ERROR if gain > GAIN_ERROR else Severity.WARNING
+                r_b = base_resistor(d, collector, 0.020)
+                fit = (f"use {quantity(r_b, 'Ω')} (E24) for {d.resistor}" if r_b and d.resistor else
+                       f"a base resistor of {quantity(r_b, 'Ω')} (E24)" if r_b else "a lower base resistance")
+                yield ctx.finding(
+                    a, severity, "{q} is not driven into saturation: {pin} gives its base as little as {ib} "
+                    "{through}, for up to {ic} of LED current, a current gain of {times} (saturated switching "
+                    "wants 10 to 20)", refs=refs, nets=tuple(n for n in (d.pin.net,) if n), line=line,
+                    values=(Value("ib", d.current.minimum, "A"), Value("ic", collector, "A"),
+                            Value("gain", gain, "", GAIN_WARNING, ">")),
+                    q=d.transistor, pin=pin, through=f"through {d.resistor}" if d.resistor else "", times=f"{gain:,.0f}",
+                    assumed=(d.basis, *circuit_assumptions(a)),
+                    hint=f"{fit}: a tenth of the LED current into the base at the weakest corner")
+
+
+RULE = Rule(
+    id="switch-drive",
+    summary="transistor switch its controller pin cannot turn off, or cannot saturate",
+    severity=Severity.ERROR,
+    check=check,
+    doc=__doc__,
+)
