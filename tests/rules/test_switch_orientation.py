@@ -27,9 +27,10 @@ def low_side(symbol: str, swapped: bool, drain: str = "3", source: str = "2") ->
 
 
 def high_side_pmos(swapped: bool) -> Board:
-    """The reviewer's classic: a P-MOSFET from +5V, gate pulled from a port pin."""
+    """A P-MOSFET from +5V, its gate on a port pin of a controller on the same +5V (so the pin
+    can turn it off: switch-drive)."""
     b = Board("switch", "switch-orientation fixture")
-    b.add("U1", "MCU8", "MCU8", "Package_SO:SOIC-8_3.9x4.9mm_P1.27mm", MCU)
+    b.add("U1", "MCU8", "MCU8", "Package_SO:SOIC-8_3.9x4.9mm_P1.27mm", {**MCU, "1": "+5V"})
     s, d = ("+5V", "Net-(Q1-D)") if not swapped else ("Net-(Q1-D)", "+5V")
     b.add("Q1", "Q_PMOS_GSD", "PMOS", SOT23, {"1": "/LED_ON", "2": s, "3": d})
     b.resistor("R1", "330", "Net-(Q1-D)", "Net-(D1-A)")
