@@ -159,7 +159,8 @@ def _rail(name: str, raw: Any, path: str) -> RailSetting:
 
 # What a part's value can plausibly be (SI units, °C); outside it is a typing mistake.
 _RANGES = {"If": (1e-6, 1000.0), "Vf": (0.1, 1000.0), "Vr": (0.0, 10_000.0), "Rth": (0.0, 10_000.0),
-           "Tj": (-60.0, 300.0), "Tolerance": (0.0, 0.5), "Power": (1e-4, 10_000.0), "pin": (1e-6, 10.0)}
+           "Tj": (-60.0, 300.0), "Tolerance": (0.0, 0.5), "Power": (1e-4, 10_000.0), "pin": (1e-6, 10.0),
+           "resistance": (0.0, 1e12)}
 
 
 def plausible(key: str, value: float) -> bool:

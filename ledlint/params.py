@@ -136,6 +136,9 @@ def resistor_params(component: Component, config: Config) -> ResistorParams:
     if isinstance(parsed, Unknown):
         resistance: Param | Missing = Missing("resistance", f"{component.ref}: {parsed.reason}",
                                               f"give {component.ref} a value such as 330R or 4k7")
+    elif not plausible("resistance", parsed.value):
+        resistance = Missing("resistance", f"{component.ref}: value {component.value!r} is more than a resistor "
+                             "can be (1 TΩ)", f"check {component.ref}'s value")
     else:
         resistance = Param(parsed.value, Origin.VALUE, f"value {component.value!r}")
     bad: list[Missing] = []

@@ -50,6 +50,7 @@ _VOLTAGE_WORD = re.compile(
     r"(?:P(?=[0-9]))?(?P<volts>[+\-]?[0-9]+(?:V[0-9]+|\.[0-9]+V|V))(?P<suffix>A|D|SB|DC|AC|~)?", re.IGNORECASE
 )
 _AC_PREFIX = re.compile(r"~\s*")
+_MAX_RAIL = 100_000.0  # V: beyond any board's supply (config rails are held to ±10 kV)
 _VBUS_WORDS = frozenset({"VBUS", "VUSB"})
 _USB_WORDS = _VBUS_WORDS | {"USB"}
 # Supply names that carry no voltage.  VREF is left out: a reference is not for loads.
@@ -121,8 +122,10 @@ def rail_from_net_name(name: str) -> Rail | None:
     suffix = (voltages[0].group("suffix") or "").upper()
     is_ac = is_ac or suffix in ("AC", "~")
     volts = parse_voltage(voltages[0].group("volts"))
-    if volts is None:
-        return None
+    if volts is None or abs(volts.value) > _MAX_RAIL:
+        return None  # "+99999999999999999999V" is a typing mistake, not a rail
+    if volts.value == 0 and not is_ac:
+        return Rail(RailKind.GROUND, 0.0, 0.0, 0.0, f"net name '{own}': 0 V, ground")
     if not is_ac and volts.value == USB_NOMINAL and any(word in _USB_WORDS for word in others):
         return _usb_rail(own)
     if is_ac and volts.value <= 0:

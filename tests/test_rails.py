@@ -228,3 +228,13 @@ def test_no_name_makes_it_raise(name: str) -> None:
     assert rail is None or rail.minimum <= rail.nominal <= rail.maximum
     is_supply_name(name)
     is_mains_name(name)
+
+
+@pytest.mark.parametrize("name", ["+0V", "-0V"])
+def test_a_zero_volt_rail_is_ground(name: str) -> None:
+    rail = rail_from_net_name(name)  # 0 V is the reference (common practice)
+    assert rail is not None and rail.kind is RailKind.GROUND
+
+
+def test_an_absurd_voltage_is_not_a_rail() -> None:
+    assert rail_from_net_name("+99999999999999999999V") is None  # a typing mistake, not a supply

@@ -143,3 +143,11 @@ def test_an_unreadable_field_stops_only_the_check_that_needs_it(tmp_path: Path) 
     gap = only(result, "missing-parameter")
     assert gap.message.startswith("If_max unknown") and "If_max = 'twenty' on D1 cannot be read" in gap.message
     assert of_rule(result, "resistor-overload")  # 64 mA² × 44.65 Ω = 183 mW in a 250 mW 1206: still checked
+
+
+def test_a_resistance_beyond_any_resistor_is_not_solved(tmp_path: Path) -> None:
+    b = Board("absurd", "missing-parameter fixture")
+    b.resistor("R1", "1e300", "+5V", "Net-(D1-A)")
+    b.led("D1", "red", "Net-(D1-A)", "GND")
+    f = only(run_board(b, tmp_path), "missing-parameter")
+    assert f.message.startswith("resistance unknown") and "more than a resistor can be" in f.message
