@@ -36,7 +36,7 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ledlint.findings import Finding, Severity, Value
+from ledlint.findings import Finding, Severity, Value, quantity
 from ledlint.params import Param
 from ledlint.registry import Option, Rule, RuleContext
 from ledlint.analyse import Analysis
@@ -71,19 +71,35 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
         _, _, led, if_max = max(over, key=lambda o: (o[0].rank, o[1]))
         worst = led.current.maximum
         limit = if_max.value if worst > if_max.value else margin * if_max.value
-        values = (Value("worst", worst, "A", limit, ">"), Value("nominal", led.current.nominal, "A"),
+        values: tuple[Value, ...] = (Value("worst", worst, "A", limit, ">"), Value("nominal", led.current.nominal, "A"),
                   Value("if_max", if_max.value, "A"), Value("allowed", margin * if_max.value, "A"))
         where = "the worst corner" if a.sharing is None else "the worst corner of the current split"
-        template = ("{led} can carry {worst} at " + where + ", above "
+        corner = _corner(a)
+        template = ("{led} can carry {worst} at " + where + (" ({corner})" if corner else "") + ", above "
                     + ("its If_max of {if_max}" if worst > if_max.value else
                        "{allowed}, the {pct} margin under its If_max of {if_max}") + " (nominal {nominal})")
+        upper = led.params.if_max_upper
+        if if_max.assumed and upper and worst > upper:  # why a default rating still gives full weight
+            template += "; that is past {upper} too, the top of the class's usual ratings"
+            values += (Value("upper", upper, "A"),)
         others = [o[2].id for o in over if o[2] is not led]
         if others:
             template += "; also over the margin: {others}"
         assumed_lines = led_assumptions(led, limit=True) + circuit_assumptions(a) + \
             [x for r in a.resistors for x in resistor_assumptions(r)]
         yield ctx.finding(a, severity, template, values=values, assumed=tuple(assumed_lines),
-                          hint=_hint(ctx, a), led=led.id, pct=f"{(1 - margin) * 100:.0f} %", others=ids(others))
+                          hint=_hint(ctx, a), led=led.id, pct=f"{(1 - margin) * 100:.0f} %", others=ids(others),
+                          corner=corner)
+
+
+def _corner(a: Analysis) -> str:
+    """The high-current corner in figures, for a voltage-driven circuit: what made the worst case."""
+    ec = a.engine[0] if a.engine else None
+    if a.set_current is not None or ec is None or ec.supply is None:
+        return ""
+    tol = ec.r_series.maximum / ec.r_series.nominal - 1 if ec.r_series.nominal > 0 else 0.0
+    parts = [f"{quantity(ec.supply.maximum, 'V')} supply"] + ([f"R −{quantity(tol, '%')}"] if tol > 0 else [])
+    return ", ".join(parts + ["Vf at its minimum", f"{ec.ambient.maximum:g} °C ambient"])
 
 
 def _hint(ctx: RuleContext, a: Analysis) -> str:
