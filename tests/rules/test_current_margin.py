@@ -38,6 +38,8 @@ def test_above_if_max_is_an_error(tmp_path: Path) -> None:
     assert worst.limit == 0.025 and worst.relation == ">"  # above If_max itself: the error line
     assert value(f, "allowed").value == pytest.approx(0.75 * 0.025)  # 25 % margin, field-facts §5b
     assert "If_max of 25 mA" in f.message
+    # The message names that corner in the same figures (rulecheck's 25 °C datasheet ambient).
+    assert "at the worst corner (5.25 V supply, R −5 %, Vf at its minimum, 25 °C ambient)" in f.message
 
 
 def test_inside_if_max_but_past_the_margin_is_a_warning(tmp_path: Path) -> None:
