@@ -2,7 +2,8 @@
 
 The panel takes +5V and +3V3 from the oven's main board over J1. A small controller (the demo
 MCU8, on +3V3) lights the HEAT, TIMER and READY indicators straight from its port pins; the
-POWER lamp, the knob backlight and the DOOR lamp run from +5V. The first revision has the
+POWER lamp, the knob backlight, the DOOR lamp and the LAMP ON indicator (switched by the
+controller) run from +5V. The first revision has the
 mistakes a rushed layout review misses; the fixed twin is the same panel after review.
 """
 
@@ -59,7 +60,16 @@ def oven_panel() -> Board:
     # DOOR lamp: placed backwards, anode on ground, so it sees the whole +5V in reverse.
     b.resistor("R8", "150", "+5V", "Net-(D8-K)", footprint=R0603)
     b.led("D8", "yellow", "GND", "Net-(D8-K)", footprint=LED0603, Vf="2.1V@20mA")
+    # LAMP ON: a white LED from +5V, switched high-side by a P-MOSFET whose gate sits straight on
+    # a port pin of the 3.3 V controller: at 3.3 V the gate is still 1.7 V below the source.
+    _lamp_on(b)
+    b.add("Q2", "Q_PMOS_GSD", "PMOS", SOT23, {"1": "/KNOB_EN", "2": "+5V", "3": "Net-(Q2-D)"})
     return b
+
+
+def _lamp_on(b: Board) -> None:
+    b.resistor("R10", "220", "Net-(Q2-D)", "Net-(D9-A)", footprint=R0603)
+    b.led("D9", "white", "Net-(D9-A)", "GND", footprint=LED0603, **BLUE)
 
 
 def oven_panel_fixed() -> Board:
@@ -78,6 +88,12 @@ def oven_panel_fixed() -> Board:
     for k in (5, 6, 7):
         _lamp(b, k, "270", "+5V", "amber", **AMBER)
     _lamp(b, 8, "330", "+5V", "yellow", Vf="2.1V@20mA")
+    # LAMP ON: Q2's gate pulled up to +5V and pulled down by Q3 from the port pin, a level shifter.
+    _lamp_on(b)
+    b.add("Q2", "Q_PMOS_GSD", "PMOS", SOT23, {"1": "Net-(Q2-G)", "2": "+5V", "3": "Net-(Q2-D)"})
+    b.resistor("R11", "10k", "+5V", "Net-(Q2-G)", footprint=R0603)
+    b.add("Q3", "Q_NPN_BEC", "NPN", SOT23, {"1": "Net-(Q3-B)", "2": "GND", "3": "Net-(Q2-G)"})
+    b.resistor("R12", "4k7", "/KNOB_EN", "Net-(Q3-B)", footprint=R0603)
     return b
 
 

@@ -30,6 +30,8 @@ DESIGNED = {
         ("resistor-overload", ERROR, ("R5",)),
         # DOOR: fitted backwards.
         ("reverse-bias", ERROR, ("D8",)),
+        # LAMP ON: a P-MOSFET on +5V, its gate on a 3.3 V port pin: it never turns off.
+        ("switch-drive", ERROR, ("D9", "Q2", "R10", "U1")),
     },
     oven_panel_fixed: set(),
     work_light: {
@@ -86,7 +88,7 @@ def test_between_them_every_rule_but_the_driver_rules() -> None:
     hit = {rule for design in DESIGNED.values() for rule, _, _ in design}
     assert hit == {"current-margin", "shared-resistor-bank", "resistor-overload", "supply-headroom",
                    "unlimited-led", "reverse-bias", "pin-overcurrent", "thermal-runaway", "missing-parameter",
-                   "unrecognised-circuit"}
+                   "unrecognised-circuit", "switch-drive"}
 
 
 def test_fixed_twin_has_no_error_or_warning() -> None:
