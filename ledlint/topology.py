@@ -330,8 +330,8 @@ def _orient(chain: list[Element]) -> Segment:
 # a MOSFET's body diode runs from source to drain in an N-channel part, drain to source in a
 # P-channel one, so swapped, it is forward-biased by the LEDs' own supply).
 REVERSED_SWITCH = {
-    Kind.NMOS: "{ref} has drain and source swapped: its body diode conducts, so the LEDs stay lit whatever its gate does",
-    Kind.PMOS: "{ref} has drain and source swapped: its body diode conducts, so the LEDs stay lit whatever its gate does",
+    Kind.NMOS: "{ref} has drain and source swapped: its body diode conducts whatever its gate does, so it cannot turn the LEDs off",
+    Kind.PMOS: "{ref} has drain and source swapped: its body diode conducts whatever its gate does, so it cannot turn the LEDs off",
     Kind.NPN: "{ref} has collector and emitter swapped: run in reverse it barely switches (a current gain of a few) "
               "and its base-emitter junction breaks down at about 6 V",
     Kind.PNP: "{ref} has collector and emitter swapped: run in reverse it barely switches (a current gain of a few) "

@@ -3,7 +3,8 @@
 The light clamps onto a 12 V battery (J1). The flood is three strings of three mid-power white
 LEDs, each with its own ballast; the spot is two strings of three 1 W white LEDs sharing one
 power resistor; a courtesy light of four mid-power LEDs was wired straight across the input
-("four times 3 V is 12 V"). The mid-power ballasts were drawn in 0805.
+("four times 3 V is 12 V"). The mid-power ballasts were drawn in 0805. An inspection light
+switched by a MOSFET came from a house symbol with drain and source swapped.
 """
 
 from __future__ import annotations
@@ -45,6 +46,14 @@ def work_light() -> Board:
     nets = ["+12V", "Net-(D16-K)", "Net-(D17-K)", "Net-(D18-K)", "GND"]
     for k in range(4):
         b.led(f"D{16 + k}", "white", nets[k], nets[k + 1], footprint=MID, **MID_WHITE)
+    # Inspection light: one mid-power LED switched low-side by Q1, a gate held up by R6 and
+    # pulled down by the handle's switch at J2; the house MOSFET symbol swaps drain and source.
+    b.resistor("R5", "1k", "+12V", "Net-(D20-A)", footprint="Resistor_SMD:R_1206_3216Metric")
+    b.led("D20", "white", "Net-(D20-A)", "Net-(D20-K)", footprint=MID, **MID_WHITE)
+    b.add("Q1", "Q_NMOS_GSD", "NMOS", "Package_TO_SOT_SMD:SOT-23", {"1": "/INSPECT", "2": "Net-(D20-K)", "3": "GND"})
+    b.resistor("R6", "100k", "+12V", "/INSPECT", footprint=R0805)
+    b.add("J2", "Conn_01x02", "Conn_01x02", "Connector_PinHeader_2.54mm:PinHeader_1x02_P2.54mm_Vertical",
+          {"1": "/INSPECT", "2": "GND"})
     return b
 
 

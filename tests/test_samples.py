@@ -45,6 +45,8 @@ DESIGNED = {
         ("resistor-overload", ERROR, ("R4",)),
         # Courtesy light: four LEDs straight across +12V.
         ("unlimited-led", ERROR, ("D16", "D17", "D18", "D19")),
+        # Inspection light: Q1 from a house symbol with drain and source swapped.
+        ("switch-orientation", ERROR, ("D20", "Q1")),
     },
     rgb_status: {
         # Status RGB: one anode resistor, each cathode on its own pin; blue and green on +3V3.
@@ -88,7 +90,7 @@ def test_between_them_every_rule_but_the_driver_rules() -> None:
     hit = {rule for design in DESIGNED.values() for rule, _, _ in design}
     assert hit == {"current-margin", "shared-resistor-bank", "resistor-overload", "supply-headroom",
                    "unlimited-led", "reverse-bias", "pin-overcurrent", "thermal-runaway", "missing-parameter",
-                   "unrecognised-circuit", "switch-drive"}
+                   "unrecognised-circuit", "switch-drive", "switch-orientation"}
 
 
 def test_fixed_twin_has_no_error_or_warning() -> None:

@@ -55,7 +55,8 @@ def row(path: str, a: Analysis) -> CircuitRow:
     power = max((r.power_max for r in a.resistors), default=None) if a.solved else None
     note = _NOT_ANALYSED.get(c.kind, c.reason if c.kind is CircuitKind.UNRECOGNISED else "")
     if c.blocked:
-        note = f"not analysed: {c.blocked}" if c.reversed_switches else f"never conducts: {c.blocked}"
+        swapped = ", ".join(q.ref for q in c.reversed_switches)
+        note = f"not analysed: {swapped} fitted backwards" if swapped else f"never conducts: {c.blocked}"
     elif a.reversed:
         current, power, note = None, None, "reversed: never conducts"
     elif not a.solved and a.missing:

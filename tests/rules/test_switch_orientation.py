@@ -42,9 +42,9 @@ def high_side_pmos(swapped: bool) -> Board:
 # drain to source, P-MOSFET source to drain, NPN collector to emitter; a swapped MOSFET's body
 # diode conducts (the LEDs cannot be turned off).
 @pytest.mark.parametrize(("board", "nets", "words"), [
-    (lambda sw: low_side("Q_NMOS_GSD", sw), ("Net-(D1-K)", "GND"), "drain and source swapped: its body diode"),
+    (lambda sw: low_side("Q_NMOS_GSD", sw), ("Net-(D1-K)", "GND"), "drain and source swapped: its body diode conducts"),
     (lambda sw: low_side("Q_NPN_BEC", sw), ("Net-(D1-K)", "GND"), "collector and emitter swapped"),
-    (high_side_pmos, ("+5V", "Net-(Q1-D)"), "drain and source swapped: its body diode"),
+    (high_side_pmos, ("+5V", "Net-(Q1-D)"), "drain and source swapped: its body diode conducts"),
 ])
 def test_a_swapped_transistor_and_its_fixed_twin(tmp_path: Path, board, nets, words: str) -> None:
     (tmp_path / "bad").mkdir()
