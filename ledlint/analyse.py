@@ -380,12 +380,13 @@ class _Analyser:
         resistors += _balancing(cor.solution, res, amb)
         k = len(c.branches)
         sharing = _sharing(ec, cor, flat, _seed(c), setc.current.nominal / k) if k >= 2 else None
-        # Headroom: the least input minus the highest string voltage at the set current, the sense
-        # voltage and the regulator's dropout.
+        # Headroom: the least input minus the highest string voltage at the set current (its LEDs
+        # and its own series or balancing resistance), the sense voltage and the regulator's dropout.
         headroom = None
         if sup is not None and not unknown:
-            worst = max(sum(_vf_max_at(p, setc.current.maximum / k, self.ctx.ambient.minimum) for p in ps)
-                        for ps in branch_leds)
+            share = setc.current.maximum / k
+            worst = max(sum(_vf_max_at(p, share, self.ctx.ambient.minimum) for p in ps) + share * b.r.maximum
+                        for ps, b in zip(branch_leds, specs))
             headroom = sup[0].volts.minimum - worst - setc.sense_voltage.maximum - setc.dropout.maximum
         results = _guarded(c, tuple(_led_results(cor, flat)), notes)
         return Analysis(c, solved=True, missing=tuple(missing), assumptions=tuple(dict.fromkeys(notes)),

@@ -230,4 +230,7 @@ def balancing_for(analysis: Analysis, limit: float, tolerance: float = 0.01) -> 
             lo = mid + 1
     r = candidates[lo]
     got, power = spread(r)
+    # The rating must cover the corners too, as resistor-overload will check the fitted board.
+    fitted = replace(ec, branches=tuple(replace(b, r=Range.tolerance(r, tolerance)) for b in ec.branches))
+    power = max(power, float(corners(fitted).solution.branch_resistor_power.max()))
     return BalancingFix(r, tolerance, got, r * share, power, present > 0)

@@ -107,7 +107,8 @@ def _hint(ctx: RuleContext, a: Analysis, limit: float) -> str:
         return text
     # The drop must come out of the output's headroom, or the output stops regulating; where the
     # headroom is not known, more than a couple of volts wastes more than it balances.
-    room = a.headroom_v if a.headroom_v is not None else _MAX_BALANCING_DROP
+    present = max(b.r.nominal for b in a.engine[0].branches) * a.sharing.equal_share if a.engine and a.sharing else 0.0
+    room = a.headroom_v + present if a.headroom_v is not None else _MAX_BALANCING_DROP  # what is there now counts
     if fix.drop > room:
         why = (f"more than the {quantity(room, 'V')} of headroom the output has" if a.headroom_v is not None
                else "too much to waste")
@@ -115,7 +116,7 @@ def _hint(ctx: RuleContext, a: Analysis, limit: float) -> str:
                        f"the split within {quantity(limit, '%')}: {why})")
     factor = ctx.option_of("resistor-overload", "design_factor", 0.5)
     chip = chip_for(fix.power_max / factor)
-    size = f", rated at least {quantity(fix.power_max / factor, 'W')} ({chip[0]} or larger)" if chip else ""
+    size = f", rated at least {quantity(fix.power_max / factor, 'W')} ({chip[0] + ' or larger' if chip else 'a power resistor'})"
     part = f"{quantity(fix.resistance, 'Ω')} {fix.tolerance * 100:g} % (E24)"
     how = (f"raise each string's balancing resistance to {part}" if fix.replaces else
            f"put {part} in series with each string")

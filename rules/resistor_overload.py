@@ -53,6 +53,8 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
         if not a.solved:
             continue
         for r in a.resistors:
+            if r.role is ResistorRole.BALANCING and a.set_current is not None and (a.headroom_v or 0.0) < 0:
+                continue  # the output cannot hold its current (driver-headroom): this power is not real
             role = _ROLE[r.role]
             rating = r.params.power
             comp = ctx.board.parts.get(r.ref)

@@ -550,3 +550,13 @@ def test_a_balancing_drop_past_two_volts_is_offered_when_the_headroom_takes_it(t
 def test_a_balancing_drop_past_the_headroom_is_called_impossible(tmp_path: Path) -> None:
     f = only(run(wide_board("0R", per_string=3), tmp_path), "driver-parallel-strings")
     assert "of headroom the output has" in f.hint and "in series with each string" not in f.hint
+
+
+def test_balancing_resistors_count_in_the_output_headroom(tmp_path: Path) -> None:
+    """1 kΩ per string at 17.9 mA drops 17.9 V (Ohm's law) on a 12 V input: the output cannot hold
+    its current. driver-headroom says so; the forced current's power in the resistors is not real,
+    so no resistor-overload."""
+    result = run(wide_board("1k 1%"), tmp_path)
+    f = only(result, "driver-headroom")
+    assert value(f, "need").value > 0.2 / 5.6 / 2 * 1000 * 0.99 + 3.4  # the string and its resistor
+    assert of_rule(result, "resistor-overload") == []
