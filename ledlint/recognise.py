@@ -115,7 +115,7 @@ class LedCircuit:
     @property
     def reversed_switches(self) -> tuple[Element, ...]:
         """Transistors in the LEDs' path fitted with their main terminals swapped."""
-        return tuple(e for e in self.elements if e.kind is ElementKind.SWITCH and e.against)
+        return tuple(e for e in self.elements if e.kind is ElementKind.SWITCH and e.against and not e.held)
 
     @property
     def refs(self) -> tuple[str, ...]:

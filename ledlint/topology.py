@@ -47,6 +47,7 @@ class Element:
     against: bool = False  # placed in a chain against its own forward direction
     assumption: str = ""  # e.g. an assumed pinout
     guard: str = ""  # an LED's antiparallel protection diode, which takes its reverse voltage
+    held: bool = False  # a MOSFET whose gate is tied on (to ground for P, to a rail for N): reverse protection
 
     @property
     def id(self) -> str:
@@ -205,13 +206,36 @@ class Topology:
             used = {p for e in elems or () for p in (e.a, e.b)}
             for e in elems or ():
                 i = len(self.elements)
-                self.elements.append(replace(e, guard=guards.get(e.id, "")))
+                self.elements.append(replace(e, guard=guards.get(e.id, ""), held=self._held(comp, e)))
                 self.ends.setdefault(e.net_a, []).append((i, "a"))
                 self.ends.setdefault(e.net_b, []).append((i, "b"))
             for pin in comp.pins:
                 if pin.net is not None and pin.number not in used and not pin.no_connect:
                     self.other_pins.setdefault(pin.net, []).append(pin)
         self.segments = self._chain()
+
+    def _held(self, comp: Component, e: Element) -> bool:
+        """A MOSFET with its gate tied to the level that turns it on (a P-channel's to ground, an
+        N-channel's to a rail), directly or through one resistor: the textbook reverse-polarity
+        protection, fitted 'backwards' on purpose so its body diode conducts until the channel
+        does (common practice)."""
+        gate = comp.pin(e.control) if e.kind is ElementKind.SWITCH and e.part in (Kind.NMOS, Kind.PMOS) else None
+        if gate is None or gate.net is None:
+            return False
+
+        def tied(net: str | None) -> bool:
+            r = rail_params(net, self.config) if net else None
+            return r is not None and (r.ground if e.part is Kind.PMOS else not r.ground and r.nominal > 0)
+
+        if tied(gate.net):
+            return True
+        # Through a resistor, with nothing else on the gate but a clamp (a zener, a capacitor): a
+        # pin, a connector or another transistor there would make it a switch after all.
+        others = [p for p in self.graph.pins_on(gate.net) if p.ref != comp.ref]
+        kinds = [classify(self.graph.component(p.ref) or comp) for p in others]
+        if any(k not in (Kind.RESISTOR, Kind.DIODE, Kind.ZENER, Kind.CAPACITOR) for k in kinds):
+            return False
+        return any(k is Kind.RESISTOR and tied(self.graph.across(p.ref, p.number)) for p, k in zip(others, kinds))
 
     def internal(self, net: str) -> bool:
         ends = self.ends.get(net, ())
@@ -319,7 +343,7 @@ def _orient(chain: list[Element]) -> Segment:
         chain = [e.flipped() for e in reversed(chain)]
     opposed = [e.id for e in chain if e.polar and e.against and e.kind is not ElementKind.SWITCH]
     reasons = [REVERSED_SWITCH[e.part].format(ref=e.ref) for e in chain
-               if e.kind is ElementKind.SWITCH and e.against]
+               if e.kind is ElementKind.SWITCH and e.against and not e.held]
     if opposed:
         verb = "faces" if len(opposed) == 1 else "face"
         reasons.insert(0, f"{', '.join(opposed)} {verb} against the other parts in series with it")

@@ -64,3 +64,20 @@ def test_an_assumed_pinout_makes_it_a_warning(tmp_path: Path) -> None:
     f = only(run_board(low_side("NMOS_SOT23", True), tmp_path), "switch-orientation")
     assert f.severity is Severity.WARNING
     assert any("pins unnamed" in a for a in f.assumed)
+
+
+@pytest.mark.parametrize("gate_resistor", [False, True])
+def test_reverse_polarity_protection_is_not_a_swapped_switch(tmp_path: Path, gate_resistor: bool) -> None:
+    """The textbook P-MOSFET reverse-polarity protection: drain to the input, source to the load,
+    gate to ground (directly or through a resistor). It is 'backwards' on purpose: its body diode
+    conducts until the channel does (common practice)."""
+    b = Board("protect", "switch-orientation fixture")
+    gate = "Net-(Q1-G)" if gate_resistor else "GND"
+    b.add("Q1", "Q_PMOS_GSD", "PMOS", SOT23, {"1": gate, "2": "/PROTECTED", "3": "+12V"})
+    if gate_resistor:
+        b.resistor("R2", "10k", "Net-(Q1-G)", "GND")
+    b.resistor("R1", "1k", "/PROTECTED", "Net-(D1-A)", footprint="Resistor_SMD:R_1206_3216Metric")
+    b.led("D1", "red", "Net-(D1-A)", "GND", Vf="2.0V@20mA", If_max="20mA")
+    result = run_board(b, tmp_path)
+    assert of_rule(result, "switch-orientation") == []
+    assert result.board.analyses[0].solved and result.board.analyses[0].leds[0].current.nominal > 0.008
