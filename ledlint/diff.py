@@ -205,15 +205,16 @@ def _moved(old: Analysis | None, new: Analysis | None) -> tuple[Moved, ...]:
 
 def _difference(before: Iterable[Finding],
                 after: Iterable[Finding]) -> tuple[tuple[Finding, ...], tuple[Finding, ...]]:
-    """(appeared, gone): findings compared by fingerprint, each accounting for one on the other side."""
+    """(appeared, gone): findings compared by fingerprint and severity, each accounting for one on
+    the other side; a warning that became an error shows as one gone and one appeared."""
     before, after = list(before), list(after)
 
     def missing(xs: list[Finding], ys: list[Finding]) -> tuple[Finding, ...]:
-        left = Counter(f.fingerprint for f in ys)
+        left = Counter((f.fingerprint, f.severity) for f in ys)
         out = []
         for f in xs:
-            if left[f.fingerprint] > 0:
-                left[f.fingerprint] -= 1
+            if left[(f.fingerprint, f.severity)] > 0:
+                left[(f.fingerprint, f.severity)] -= 1
             else:
                 out.append(f)
         return tuple(out)
@@ -255,8 +256,13 @@ def compare(old: FileResult, new: FileResult) -> NetlistDiff:
     def holding(c: LedCircuit | None, side: tuple[LedCircuit, ...]) -> tuple[str, ...]:
         return tuple(o.id for o in side if set(_leds(o)) & set(_leds(c)))
 
+    def driving(a: Analysis | None) -> list[str]:
+        return [r for d in (a.drives if a else ()) for r in (d.resistor, d.pin.ref) if r]
+
     def parts_edited(before: LedCircuit, after: LedCircuit) -> tuple[Edit, ...]:
-        refs = dict.fromkeys([*after.refs, *before.refs])
+        # The circuit's own parts and what drives its switches (a base or gate resistor).
+        refs = dict.fromkeys([*after.refs, *before.refs, *driving(new_analyses.get(after.id)),
+                              *driving(old_analyses.get(before.id))])
         return tuple(e for ref in refs for e in edits(old.netlist.component(ref), new.netlist.component(ref)))
 
     out = []

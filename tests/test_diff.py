@@ -161,3 +161,27 @@ def test_the_edits_behind_a_change_are_named(a_to_b) -> None:
     assert "R3 value 100 → 200" in [e.text() for e in by["D3"].edits]
     text = diff.render_text(a_to_b)
     assert "    edit R1 value 47 → 510" in text
+
+
+def test_a_base_resistor_edit_and_a_severity_change_show(tmp_path) -> None:
+    """A base resistor is not in the LEDs' path but decides the switch: its edit is listed, and a
+    switch-drive error that became a warning shows as one gone and one appeared."""
+    from kicad8 import Board
+
+    def board(r_b: str) -> Board:
+        b = Board("npn", "diff fixture")
+        b.add("U1", "MCU8", "MCU8", "Package_SO:SOIC-8_3.9x4.9mm_P1.27mm", {"1": "+3V3", "2": "/ON", "8": "GND"})
+        b.resistor("R2", r_b, "/ON", "Net-(Q1-B)")
+        b.resistor("R1", "150", "+5V", "Net-(D1-A)", footprint="Resistor_SMD:R_1206_3216Metric")
+        b.led("D1", "red", "Net-(D1-A)", "Net-(D1-K)", Vf="2.0V@20mA", If_max="30mA", Rth="0")
+        b.add("Q1", "Q_NPN_BEC", "NPN", "Package_TO_SOT_SMD:SOT-23", {"1": "Net-(Q1-B)", "2": "GND", "3": "Net-(D1-K)"})
+        return b
+
+    old, new = tmp_path / "old.net", tmp_path / "new.net"
+    old.write_text(board("100k").text(), encoding="utf-8")
+    new.write_text(board("33k").text(), encoding="utf-8")
+    d = diff.diff_files(old, new)
+    c = _by_id(d)["D1"]
+    assert c.status is Status.CHANGED and [e.text() for e in c.edits] == ["R2 value 100k → 33k"]
+    assert [(f.rule, f.severity) for f in c.gone] == [("switch-drive", Severity.ERROR)]
+    assert [(f.rule, f.severity) for f in c.appeared] == [("switch-drive", Severity.WARNING)]
