@@ -236,6 +236,7 @@ class SwitchDrive:
     current: Range | None  # A into (or out of) the pin for a bipolar base: least to most; None for a gate
     sourcing: bool  # an NPN's base is sourced; a PNP's base is sunk
     basis: str
+    pull_up: str = ""  # a resistor from the base or gate to the switch's own rail (an open-drain drive)
 
     @property
     def high_side(self) -> bool:
@@ -282,7 +283,10 @@ def switch_drives(circuit: LedCircuit, graph: NetGraph, config: Config) -> list[
                      f"resistance {PIN_RESISTANCE[0]:g}-{PIN_RESISTANCE[2]:g} Ω assumed)")
         elif io is not None:
             basis = f"{pin.ref} pin {pin.name or pin.number} drives {e.ref}'s gate; {sup.basis if sup else ''}"
-        out.append(SwitchDrive(pin, e.ref, e.part, resistor, io, rails, current, not high_side, basis))
+        pull_up = next((p.ref for p in graph.pins_on(control.net) if p.ref not in (e.ref, resistor)
+                        and (c := graph.component(p.ref)) is not None and classify(c) is Kind.RESISTOR
+                        and graph.across(p.ref, p.number) == common.net), "")
+        out.append(SwitchDrive(pin, e.ref, e.part, resistor, io, rails, current, not high_side, basis, pull_up))
     return out
 
 

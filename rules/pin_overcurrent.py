@@ -81,10 +81,11 @@ def _base_finding(ctx: RuleContext, a: Analysis, p: PinResult, b: SwitchDrive, v
     base = f"through {b.resistor}" if b.resistor else "with no base resistor"
     part = ctx.board.parts.get(p.pin.ref)
     return ctx.finding(
-        a, Severity.ERROR, "{ic} pin {pin} ({net}) {verb} up to {current} into {q}'s base {base}, above its limit of "
+        a, Severity.ERROR, "{ic} pin {pin} ({net}) {verb} up to {current} {way} {q}'s base {base}, above its limit of "
         "{limit}", refs=tuple(dict.fromkeys((p.pin.ref, b.transistor, *((b.resistor,) if b.resistor else ()), *a.circuit.refs))),
         nets=(p.pin.net or "",), values=values, assumed=assumed, hint=hint, ic=p.pin.ref, pin=p.pin.name or p.pin.number,
-        net=p.pin.net, verb=verb, q=b.transistor, base=base, line=part.line if part else None, topic=b.transistor)
+        net=p.pin.net, verb=verb, q=b.transistor, base=base, line=part.line if part else None, topic=b.transistor,
+        way="into" if p.sourcing else "out of")
 
 
 RULE = Rule(

@@ -84,8 +84,8 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
         tol = a.supply.volts.maximum / a.supply.volts.nominal - 1 if a.supply.volts.nominal > 0 else 0.0
         rail = (f"{quantity(fix.supply, 'V')} nominal (±{quantity(tol, '%')} as now), with the ballast re-sized "
                 "for the same current" if fix is not None and fix.supply is not None else "")
-        fewer = (f"at most {fix.leds} LEDs per string" if fix is not None and fix.leds is not None
-                 else "fewer LEDs in series")
+        fewer = (f"at most {fix.leds} LEDs per string (the ballast re-sized for them)" if fix is not None
+                 and fix.leds is not None else "fewer LEDs in series")
         if fix is not None and fix.supply is not None:
             values += (Value("supply_needed", fix.supply, "V"),)
         if any(t is not None and t.kind is TerminalKind.PIN for t in (c.source, c.ret)) or c.individually_driven:

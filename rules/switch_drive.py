@@ -67,9 +67,14 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                 threshold = VGS.minimum if d.part is Kind.PMOS else VBE.minimum
                 if d.io.maximum < d.rail.minimum - threshold:
                     what, terminal = ("gate", "source") if d.part is Kind.PMOS else ("base", "emitter")
+                    # A pull-up to the switch's own rail says the pin may be meant as open drain: then
+                    # it works if the pin stands that voltage, which the netlist cannot tell.
+                    unless = (f", unless {pin} is set to open drain and stands the rail ({d.pull_up} pulls the "
+                              f"{what} up)" if d.pull_up else "")
                     yield ctx.finding(
-                        a, Severity.ERROR, "{q} cannot be turned off: its {terminal} is on a rail of at least {rail} "
-                        "but {pin} drives its {what} no higher than {io}, so {leds} {stay} lit",
+                        a, Severity.WARNING if d.pull_up else Severity.ERROR,
+                        "{q} cannot be turned off: its {terminal} is on a rail of at least {rail} "
+                        "but {pin} drives its {what} no higher than {io}, so {leds} {stay} lit" + unless,
                         refs=refs, nets=tuple(n for n in (d.pin.net,) if n), line=line,
                         values=(Value("rail", d.rail.minimum, "V"), Value("io", d.io.maximum, "V",
                                                                          d.rail.minimum - threshold, "<")),

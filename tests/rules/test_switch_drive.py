@@ -70,3 +70,12 @@ def test_a_starved_base_does_not_saturate(tmp_path: Path, r_b: str, severity: Se
     assert value(f, "gain").value == pytest.approx(value(f, "ic").value / i_b, rel=1e-6)
     assert 0.022 < value(f, "ic").value < 0.026
     assert "(E24) for R2" in f.hint
+
+
+def test_a_pull_up_to_the_rail_makes_it_a_warning(tmp_path: Path) -> None:
+    """A pull-up from gate to source says the pin may be open drain: then the switch works if the
+    pin stands the rail, which a netlist cannot tell (common practice)."""
+    b = high_side("+5V")
+    b.resistor("R4", "10k", "+5V", "/LED_OFF")
+    f = only(run_board(b, tmp_path), "switch-drive")
+    assert f.severity is Severity.WARNING and "unless U1 pin PA0 is set to open drain" in f.message
