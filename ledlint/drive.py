@@ -236,7 +236,17 @@ class SwitchDrive:
     current: Range | None  # A into (or out of) the pin for a bipolar base: least to most; None for a gate
     sourcing: bool  # an NPN's base is sourced; a PNP's base is sunk
     basis: str
-    pull_up: str = ""  # a resistor from the base or gate to the switch's own rail (an open-drain drive)
+    tie: str = ""  # a resistor from base or gate to emitter or source: a pull-up (high side), a pull-down
+    bleed: Range = Range.fixed(0.0)  # A the tie takes from a bipolar base (V_BE / R): not base current
+
+    @property
+    def base_current(self) -> Range | None:
+        """What reaches a bipolar base: the pin's current less what the tie bleeds off."""
+        if self.current is None:
+            return None
+        return Range(max(self.current.nominal - self.bleed.nominal, 0.0),
+                     max(self.current.minimum - self.bleed.maximum, 0.0),
+                     max(self.current.maximum - self.bleed.minimum, 0.0))
 
     @property
     def high_side(self) -> bool:
@@ -283,10 +293,18 @@ def switch_drives(circuit: LedCircuit, graph: NetGraph, config: Config) -> list[
                      f"resistance {PIN_RESISTANCE[0]:g}-{PIN_RESISTANCE[2]:g} Ω assumed)")
         elif io is not None:
             basis = f"{pin.ref} pin {pin.name or pin.number} drives {e.ref}'s gate; {sup.basis if sup else ''}"
-        pull_up = next((p.ref for p in graph.pins_on(control.net) if p.ref not in (e.ref, resistor)
-                        and (c := graph.component(p.ref)) is not None and classify(c) is Kind.RESISTOR
-                        and graph.across(p.ref, p.number) == common.net), "")
-        out.append(SwitchDrive(pin, e.ref, e.part, resistor, io, rails, current, not high_side, basis, pull_up))
+        tie = next((c for p in graph.pins_on(control.net) if p.ref not in (e.ref, resistor)
+                    and (c := graph.component(p.ref)) is not None and classify(c) is Kind.RESISTOR
+                    and graph.across(p.ref, p.number) == common.net), None)
+        bleed = Range.fixed(0.0)
+        if tie is not None and not mos:
+            rt = resistor_params(tie, config)
+            if isinstance(rt.resistance, Param) and rt.resistance.value > 0:
+                r_tie = Range.tolerance(rt.resistance.value, rt.tolerance.value)
+                bleed = Range(VBE.nominal / r_tie.nominal, VBE.minimum / r_tie.maximum, VBE.maximum / r_tie.minimum)
+                basis += f"; {tie.ref} across base and emitter takes V_BE / R, up to {bleed.maximum * 1e6:.0f} µA"
+        out.append(SwitchDrive(pin, e.ref, e.part, resistor, io, rails, current, not high_side, basis,
+                               tie.ref if tie else "", bleed))
     return out
 
 

@@ -69,10 +69,10 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                     what, terminal = ("gate", "source") if d.part is Kind.PMOS else ("base", "emitter")
                     # A pull-up to the switch's own rail says the pin may be meant as open drain: then
                     # it works if the pin stands that voltage, which the netlist cannot tell.
-                    unless = (f", unless {pin} is set to open drain and stands the rail ({d.pull_up} pulls the "
-                              f"{what} up)" if d.pull_up else "")
+                    unless = (f", unless {pin} is set to open drain and stands the rail ({d.tie} pulls the "
+                              f"{what} up)" if d.tie else "")
                     yield ctx.finding(
-                        a, Severity.WARNING if d.pull_up else Severity.ERROR,
+                        a, Severity.WARNING if d.tie else Severity.ERROR,
                         "{q} cannot be turned off: its {terminal} is on a rail of at least {rail} "
                         "but {pin} drives its {what} no higher than {io}, so {leds} {stay} lit" + unless,
                         refs=refs, nets=tuple(n for n in (d.pin.net,) if n), line=line,
@@ -84,9 +84,10 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                                  d.basis, *circuit_assumptions(a)),
                         hint=f"drive {d.transistor}'s {what} through a small N-MOSFET or NPN stage with a pull-up "
                              f"to its {terminal}'s rail, or run the LEDs from a rail {pin} can reach")
-            if d.part is Kind.NPN and d.current is not None and d.current.minimum > 0:
+            base = d.base_current
+            if d.part is Kind.NPN and base is not None and d.current is not None and d.current.minimum > 0:
                 collector = max(r.current.maximum for r in a.leds) * max(len(c.branches), 1)
-                gain = collector / d.current.minimum
+                gain = collector / max(base.minimum, 1e-12)
                 if gain <= GAIN_WARNING:
                     continue
                 severity = Severity.ERROR if gain > GAIN_ERROR else Severity.WARNING
@@ -97,9 +98,9 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                     a, severity, "{q} is not driven into saturation: {pin} gives its base as little as {ib} "
                     "{through}, for up to {ic} of LED current, a current gain of {times} (saturated switching "
                     "wants 10 to 20)", refs=refs, nets=tuple(n for n in (d.pin.net,) if n), line=line,
-                    values=(Value("ib", d.current.minimum, "A"), Value("ic", collector, "A"),
+                    values=(Value("ib", base.minimum, "A"), Value("ic", collector, "A"),
                             Value("gain", gain, "", GAIN_WARNING, ">")),
-                    q=d.transistor, pin=pin, through=f"through {d.resistor}" if d.resistor else "", times=f"{gain:,.0f}",
+                    q=d.transistor, pin=pin, through=f"through {d.resistor}" if d.resistor else "", times=f"{gain:,.0f}" if base.minimum > 0 else "without bound",
                     assumed=(d.basis, *circuit_assumptions(a)),
                     hint=f"{fit}: a tenth of the LED current into the base at the weakest corner")
 

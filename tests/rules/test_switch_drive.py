@@ -79,3 +79,15 @@ def test_a_pull_up_to_the_rail_makes_it_a_warning(tmp_path: Path) -> None:
     b.resistor("R4", "10k", "+5V", "/LED_OFF")
     f = only(run_board(b, tmp_path), "switch-drive")
     assert f.severity is Severity.WARNING and "unless U1 pin PA0 is set to open drain" in f.message
+
+
+def test_a_base_pull_down_takes_its_share(tmp_path: Path) -> None:
+    """4.7 kΩ from base to emitter takes V_BE / R of the base drive (Ohm's law): with 10 kΩ in
+    series from a 3.3 V pin, what reaches the base at the weakest corner is
+    (3.135 − 0.75) / 10.565 kΩ − 0.75 / 4.465 kΩ, about 58 µA."""
+    b = low_side("10k")
+    b.resistor("R3", "4k7", "Net-(Q1-B)", "GND")
+    f = only(run_board(b, tmp_path), "switch-drive")
+    expected = (3.3 * 0.95 - 0.75) / (1e4 * 1.05 + 65) - 0.75 / (4700 * 0.95)
+    assert value(f, "ib").value == pytest.approx(expected, rel=1e-6)
+    assert f.severity is Severity.WARNING and any("R3 across base and emitter" in x for x in f.assumed)
