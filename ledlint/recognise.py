@@ -421,7 +421,9 @@ class _Recogniser:
                                    "not a supply, ground or driver pin the tool follows", node=node,
                               never_lights=odd.kind is TerminalKind.OPEN)
             return
-        if not any(e.kind is ElementKind.RESISTOR for e in elems):
+        own = all(any(e.kind is ElementKind.RESISTOR for e in b.elements) for b in branches)
+        if not own and not any(e.kind is ElementKind.RESISTOR for e in elems):
+            # (Strings each with their own resistor may share a switch: a bank of ballasted strings.)
             self.unrecognised(ids, f"strings meet at {node}, which leads on through {', '.join(e.id for e in elems)} "
                                    "with no resistor", node=node)
             return

@@ -54,6 +54,8 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
         if c.kind is not CircuitKind.BANK:
             continue
         shared = [e.ref for e in c.top + c.bottom if e.kind is ElementKind.RESISTOR]
+        if not shared:
+            continue  # strings each with their own resistor, sharing only a switch: current-margin's
         leds = list(c.leds)
         refs = tuple(dict.fromkeys(shared + [i.split(":")[0] for i in leds]))
         nets = (c.node,)

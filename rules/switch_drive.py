@@ -91,9 +91,10 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                 if gain <= GAIN_WARNING:
                     continue
                 severity = Severity.ERROR if gain > GAIN_ERROR else Severity.WARNING
-                r_b = base_resistor(d, collector, 0.020)
+                limit = next((p.limit.value for p in a.pins if p.pin is d.pin or p.pin == d.pin), 0.020)
+                r_b = base_resistor(d, collector, limit)
                 fit = (f"use {quantity(r_b, 'Ω')} (E24) for {d.resistor}" if r_b and d.resistor else
-                       f"a base resistor of {quantity(r_b, 'Ω')} (E24)" if r_b else "a lower base resistance")
+                       f"a base resistor of {quantity(r_b, 'Ω')} (E24)" if r_b else "")
                 yield ctx.finding(
                     a, severity, "{q} is not driven into saturation: {pin} gives its base as little as {ib} "
                     "{through}, for up to {ic} of LED current, a current gain of {times} (saturated switching "
@@ -102,7 +103,9 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                             Value("gain", gain, "", GAIN_WARNING, ">")),
                     q=d.transistor, pin=pin, through=f"through {d.resistor}" if d.resistor else "", times=f"{gain:,.0f}" if base.minimum > 0 else "without bound",
                     assumed=(d.basis, *circuit_assumptions(a)),
-                    hint=f"{fit}: a tenth of the LED current into the base at the weakest corner")
+                    hint=f"{fit}: a tenth of the LED current into the base at the weakest corner" if fit else
+                    f"no base resistor gives a tenth of {quantity(collector, 'A')} within the pin's "
+                    f"{quantity(limit, 'A')}: switch with a logic-level N-MOSFET, or add a driver stage")
 
 
 RULE = Rule(

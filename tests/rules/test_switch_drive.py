@@ -91,3 +91,22 @@ def test_a_base_pull_down_takes_its_share(tmp_path: Path) -> None:
     expected = (3.3 * 0.95 - 0.75) / (1e4 * 1.05 + 65) - 0.75 / (4700 * 0.95)
     assert value(f, "ib").value == pytest.approx(expected, rel=1e-6)
     assert f.severity is Severity.WARNING and any("R3 across base and emitter" in x for x in f.assumed)
+
+
+def test_strings_with_their_own_resistors_share_one_switch(tmp_path: Path) -> None:
+    """Four red LEDs, each through its own 47 Ω from +5V, onto one NPN: a bank of ballasted
+    strings, checked LED by LED (current-margin), not a shared-resistor bank. Each LED takes
+    about (5.25 − 1.8) / 44.65 Ω ≈ 77 mA at most (Ohm's law, less V_CE), over its 30 mA."""
+    b = Board("four", "switch-drive fixture")
+    b.add("U1", "MCU8", "MCU8", SOIC8, {"1": "+3V3", "2": "/LED_ON", "8": "GND"})
+    b.resistor("R9", "1k", "/LED_ON", "Net-(Q1-B)")
+    for k in range(1, 5):
+        b.resistor(f"R{k}", "47", "+5V", f"Net-(D{k}-A)", footprint="Resistor_SMD:R_1206_3216Metric")
+        b.led(f"D{k}", "red", f"Net-(D{k}-A)", "/COL", Vf="2.0V@20mA", If_max="30mA", Rth="0")
+    b.add("Q1", "Q_NPN_BEC", "NPN", SOT23, {"1": "Net-(Q1-B)", "2": "GND", "3": "/COL"})
+    result = run_board(b, tmp_path)
+    assert [a.circuit.kind.value for a in result.board.analyses] == ["shared-resistor-bank"]
+    assert of_rule(result, "shared-resistor-bank") == [] and of_rule(result, "unrecognised-circuit") == []
+    f = only(result, "current-margin")
+    assert f.severity is Severity.ERROR and "for each of R1, R2, R3 and R4" in f.hint
+    assert 0.060 < value(f, "worst").value < (5.25 - 1.8) / (47 * 0.95)
