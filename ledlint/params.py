@@ -278,6 +278,11 @@ def led_params(component: Component, config: Config, die: str = "") -> LedParams
         vf = Param(vq.value, vf_field.origin, vf_field.detail)
         if iq is not None:
             i_test = Param(iq.value, vf_field.origin, vf_field.detail)
+    elif (vf_lo := _quantity(component, config, _die_key("Vf_min", die), parse_voltage)) and \
+            (vf_hi := _quantity(component, config, _die_key("Vf_max", die), parse_voltage)) and \
+            vf_lo.value <= vf_hi.value:
+        # Only the bounds given: the datasheet's own range beats a colour's table value.
+        vf = Param((vf_lo.value + vf_hi.value) / 2, vf_lo.origin, f"midway between {vf_lo.detail} and {vf_hi.detail}")
     elif tech:
         vf = Param(tech.vf_typ, Origin.DEFAULT, f"typical {tech.name} LED, built-in table ({colour_where})")
     else:

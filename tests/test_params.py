@@ -27,6 +27,14 @@ def test_vf_field_with_test_current_and_spread() -> None:
     assert (p.vf_min.value, p.vf_max.value) == pytest.approx((2.7, 3.3))
 
 
+def test_only_the_bounds_given_put_the_typical_midway() -> None:
+    # A datasheet giving min and max only: the midpoint stands for typical (common practice), and
+    # the bounds are the LED's own, not a colour table's.
+    p = led_params(_led("LED", Vf_min="2.8V", Vf_max="3.4V"), from_mapping({}))
+    assert p.vf.value == pytest.approx(3.1) and p.vf.origin is Origin.FIELD
+    assert (p.vf_min.value, p.vf_max.value) == pytest.approx((2.8, 3.4))
+
+
 def test_colour_table_when_no_fields() -> None:
     p = led_params(_led("LED_red"), from_mapping({}))
     # Red: 1.85 V typical and 2.5 V maximum at 20 mA (field-facts §5a, robot.lk table).
