@@ -44,8 +44,8 @@ from ledlint.rules._support import assumed_param, by_evidence, circuit_assumptio
 def check(ctx: RuleContext) -> Iterator[Finding]:
     limit = ctx.options["gain_limit"]
     for a in ctx.analyses:
-        if not a.solved or a.loop_gain is None or a.loop_gain < limit or a.set_current is not None:
-            continue
+        if not a.solved or a.loop_gain is None or a.loop_gain < limit or a.set_current is not None or a.unlimited:
+            continue  # an LED with nothing to limit it: unlimited-led says so, and no ballast drop can help
         rth_assumed = any(r.params.rth is not None and r.params.rth.assumed for r in a.leds)
         severity = by_evidence(Severity.WARNING, rth_assumed)
         amplification = 1 / (1 - a.loop_gain) if a.loop_gain < 1 else float("inf")
