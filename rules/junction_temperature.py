@@ -2,8 +2,9 @@
 
 What it flags
     An LED whose junction, heated by its own dissipation through its thermal resistance Rth,
-    passes its Tj_max at the worst corner (hottest ambient, highest current), while its current
-    is within If_max: the heat path, not the current, is at fault. Tj_max is 125 °C unless the
+    passes its Tj_max at the hottest corner (hottest ambient, highest supply, least resistance,
+    at either end of the LED's Vf range), while its current is within If_max: the heat path, not
+    the current, is at fault. Tj_max is 125 °C unless the
     part says (a field `Tj_max`); a default rating or Rth makes it one step less severe.
 
 Why it matters
@@ -14,7 +15,7 @@ Why it matters
 Example
     A 1 W white LED (Vf 3.0 V at 350 mA, If_max 1.5 A) with 130 K/W to ambient, from +5V through
     4.7 Ω (a 5 W power resistor): about 0.5 A and 1.3 W nominal, and at the worst corner
-    (0.69 A, 40 °C ambient) a junction near 235 °C. Fixed: a heat path of 30 K/W (copper, a
+    (40 °C ambient) a junction near 240 °C. Fixed: a heat path of 30 K/W (copper, a
     star board) holds it under 90 °C at the same corner.
 
 Fix

@@ -4,7 +4,8 @@ The light clamps onto a 12 V battery (J1). The flood is three strings of three m
 LEDs, each with its own ballast; the spot is two strings of three 1 W white LEDs sharing one
 power resistor; a courtesy light of four mid-power LEDs was wired straight across the input
 ("four times 3 V is 12 V"). The mid-power ballasts were drawn in 0805. An inspection light
-switched by a MOSFET came from a house symbol with drain and source swapped.
+switched by a MOSFET came from a house symbol with drain and source swapped, and a 1 W map
+light sits on the FR-4 tab, away from the strip's aluminium.
 """
 
 from __future__ import annotations
@@ -46,6 +47,9 @@ def work_light() -> Board:
     nets = ["+12V", "Net-(D16-K)", "Net-(D17-K)", "Net-(D18-K)", "GND"]
     for k in range(4):
         b.led(f"D{16 + k}", "white", nets[k], nets[k + 1], footprint=MID, **MID_WHITE)
+    # Map light: one more 1 W LED, on the FR-4 tab instead of the strip, so nothing sinks its heat.
+    b.resistor("R7", "33", "+12V", "Net-(D21-A)", footprint=R_POWER, Power="10W")
+    b.led("D21", "white", "Net-(D21-A)", "GND", footprint=STAR, **{**POWER_WHITE, "Rth": "150K/W", "Tj_max": "125C"})
     # Inspection light: one mid-power LED switched low-side by Q1, a gate held up by R6 and
     # pulled down by the handle's switch at J2; the house MOSFET symbol swaps drain and source.
     b.resistor("R5", "1k", "+12V", "Net-(D20-A)", footprint="Resistor_SMD:R_1206_3216Metric")

@@ -47,6 +47,8 @@ DESIGNED = {
         ("unlimited-led", ERROR, ("D16", "D17", "D18", "D19")),
         # Inspection light: Q1 from a house symbol with drain and source swapped.
         ("switch-orientation", ERROR, ("D20", "Q1")),
+        # Map light: a 1 W LED at 150 K/W on the FR-4 tab, within its current, past its Tj_max.
+        ("junction-temperature", WARNING, ("D21", "R7")),
     },
     rgb_status: {
         # Status RGB: one anode resistor, each cathode on its own pin; blue and green on +3V3.
@@ -90,7 +92,7 @@ def test_between_them_every_rule_but_the_driver_rules() -> None:
     hit = {rule for design in DESIGNED.values() for rule, _, _ in design}
     assert hit == {"current-margin", "shared-resistor-bank", "resistor-overload", "supply-headroom",
                    "unlimited-led", "reverse-bias", "pin-overcurrent", "thermal-runaway", "missing-parameter",
-                   "unrecognised-circuit", "switch-drive", "switch-orientation"}
+                   "unrecognised-circuit", "switch-drive", "switch-orientation", "junction-temperature"}
 
 
 def test_fixed_twin_has_no_error_or_warning() -> None:

@@ -17,6 +17,7 @@ Array = NDArray[np.float64]
 NOMINAL = "nominal"
 MAX_CURRENT = "max_current"
 MIN_CURRENT = "min_current"
+HOTTEST = "hottest_junction"
 MAX_RESISTOR_POWER = "max_resistor_power"
 _LOW_R, _HIGH_R = "resistor_power_low_r", "resistor_power_high_r"
 
@@ -64,6 +65,10 @@ def _rows(circuit: Circuit) -> list[_Row]:
         _ends(circuit, _LOW_R, True, False, r_min, vf_min, True),
         _ends(circuit, _HIGH_R, True, True, r_max, vf_min, True),
     ]
+    if any(d.rth for d in leds):
+        # The hottest junction: highest drive and least resistance, but every LED at its highest
+        # Vf, for a ballasted LED dissipates more with a higher Vf while V > 2·Vf (P = I·Vf).
+        rows.append(_ends(circuit, HOTTEST, True, False, r_min, vf_max, True))
     if len(branches) >= 2:
         branch_of = np.array(circuit.branch_of_led)
         for j, k in enumerate(branch_of):
