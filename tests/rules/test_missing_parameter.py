@@ -103,7 +103,7 @@ def test_rectified_supply_asks_for_its_peak(tmp_path: Path) -> None:
     config = m.group(1) + "\n" + m.group(2).replace(" and ", "\n") + "\n"
     followed = run_board(b, tmp_path, config)
     assert of_rule(followed, "missing-parameter") == [] and all(a.solved for a in followed.board.analyses)
-    assert followed.board.cautions  # the mains caution stays (brief: mains or > 60 V DC)
+    assert followed.board.cautions  # the mains caution stays (mains or > 60 V DC: the README's limits and cautions)
 
 
 def _pin_driven(vbat: str, vdd: str) -> Board:

@@ -60,7 +60,7 @@ def test_sinking_pin(tmp_path: Path) -> None:
 
 
 def test_default_pin_rating_still_an_error(tmp_path: Path) -> None:
-    """No rating on U1: the 20 mA per-pin default (the project's issue 4; common practice) holds,
+    """No rating on U1: the 20 mA per-pin default (rules/pin_overcurrent.py; common practice) holds,
     at full severity, and the finding says it was assumed."""
     f = only(run_board(status_led("100"), tmp_path), "pin-overcurrent")
     assert f.severity is Severity.ERROR
