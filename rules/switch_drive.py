@@ -101,7 +101,8 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                     "wants 10 to 20)", refs=refs, nets=tuple(n for n in (d.pin.net,) if n), line=line,
                     values=(Value("ib", base.minimum, "A"), Value("ic", collector, "A"),
                             Value("gain", gain, "", GAIN_WARNING, ">")),
-                    q=d.transistor, pin=pin, through=f"through {d.resistor}" if d.resistor else "", times=f"{gain:,.0f}" if base.minimum > 0 else "without bound",
+                    q=d.transistor, pin=pin, through=f"through {d.resistor}" if d.resistor else "",
+                    times=f"{gain:,.0f}" if base.minimum > 0 else "without bound",
                     assumed=(d.basis, *circuit_assumptions(a)),
                     hint=f"{fit}: a tenth of the LED current into the base at the weakest corner" if fit else
                     f"no base resistor gives a tenth of {quantity(collector, 'A')} within the pin's "
