@@ -115,7 +115,14 @@ def edits(old: Component | None, new: Component | None) -> tuple[Edit, ...]:
         a, b = old.fields.get(name), new.fields.get(name)
         if a != b:
             out.append(Edit(new.ref, name, a, b))
+    before, after = _wiring(old), _wiring(new)
+    if before != after:  # rewired: a part turned round, moved to another net
+        out.append(Edit(new.ref, "pins", before, after))
     return tuple(out)
+
+
+def _wiring(c: Component) -> str:
+    return ", ".join(f"{p.number} {p.net or '(no net)'}" for p in sorted(c.pins, key=lambda p: (len(p.number), p.number)))
 
 
 def _fitted(c: Component) -> str:
@@ -179,8 +186,11 @@ def _leds(c: LedCircuit | None) -> tuple[str, ...]:
 def readings(a: Analysis) -> dict[tuple[Quantity, str], Reading]:
     """The figures a reviewer follows for one circuit, keyed by what they measure."""
     out: dict[tuple[Quantity, str], Reading] = {}
-    if not a.solved or a.reversed:
-        return out  # a reversed circuit carries only leakage: no figures to follow
+    if not a.solved:
+        return out
+    if a.reversed or (a.circuit.blocked and not a.circuit.reversed_switches):
+        # Reversed, or a string that never conducts: leakage only, so its LEDs read 0 A.
+        return {(Quantity.CURRENT, led.id): Reading(0.0) for led in a.leds}
     if not a.circuit.blocked:
         for led in a.leds:
             out[(Quantity.CURRENT, led.id)] = Reading(led.current.nominal, led.current.minimum, led.current.maximum)

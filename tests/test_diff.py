@@ -185,3 +185,23 @@ def test_a_base_resistor_edit_and_a_severity_change_show(tmp_path) -> None:
     assert c.status is Status.CHANGED and [e.text() for e in c.edits] == ["R2 value 100k → 33k"]
     assert [(f.rule, f.severity) for f in c.gone] == [("switch-drive", Severity.ERROR)]
     assert [(f.rule, f.severity) for f in c.appeared] == [("switch-drive", Severity.WARNING)]
+
+
+def test_a_part_turned_round_shows_as_rewired(tmp_path) -> None:
+    from kicad8 import Board
+
+    def board(turned: bool) -> Board:
+        b = Board("door", "diff fixture")
+        b.resistor("R8", "330", "+5V", "/K" if turned else "/A")
+        if turned:
+            b.led("D8", "yellow", "GND", "/K", Vf="2.1V@20mA")  # anode on ground: fitted backwards
+        else:
+            b.led("D8", "yellow", "/A", "GND", Vf="2.1V@20mA")
+        return b
+
+    old, new = tmp_path / "old.net", tmp_path / "new.net"
+    old.write_text(board(True).text(), encoding="utf-8")
+    new.write_text(board(False).text(), encoding="utf-8")
+    c = _by_id(diff.diff_files(old, new))["D8"]
+    assert "D8 pins 1 /K, 2 GND → 1 GND, 2 /A" in [e.text() for e in c.edits]
+    assert [m.side(m.old) for m in c.moved if m.label == "current D8"] == ["0 A"]  # reversed: leakage only
