@@ -72,14 +72,17 @@ class Comparison:
     result: RunResult
     new: tuple[Finding, ...]
     known: tuple[Finding, ...]
-    stale: tuple[Entry, ...]  # entries that matched no finding: fixed, or the part was renamed
+    stale: tuple[Entry, ...]  # entries that matched no finding: fixed, the part renamed, or now more severe
+    worse: frozenset[tuple[str, str]] = frozenset()  # (file, fingerprint) of stale entries still found, more severe
 
     def summary(self) -> list[str]:
         """Lines for the user: what the baseline accounted for and what in it no longer matches."""
         stale = f"{len(self.stale)} stale entr{'y' if len(self.stale) == 1 else 'ies'}"
         lines = [f"baseline {self.baseline.path}: {len(self.known)} known finding(s) not counted, "
                  f"{len(self.new)} new, {stale}"]
-        lines += [f"baseline {self.baseline.path}: stale entry, no longer found: {e.describe()}" for e in self.stale]
+        lines += [f"baseline {self.baseline.path}: stale entry, "
+                  f"{'now more severe' if e.key in self.worse else 'no longer found'}: {e.describe()}"
+                  for e in self.stale]
         return lines
 
 
@@ -180,4 +183,6 @@ def compare(result: RunResult, baseline: Baseline) -> Comparison:
                              waived=tuple(sorted((*fr.waived, *silenced), key=lambda f: f.sort_key))))
     order = {id(e): i for i, e in enumerate(baseline.entries)}
     stale = sorted((e for left in remaining.values() for e in left if e.file in checked), key=lambda e: order[id(e)])
-    return Comparison(baseline, replace(result, files=tuple(files)), tuple(new), tuple(known), tuple(stale))
+    found = {(posix_path(f.file, folder), f.fingerprint) for f in new}
+    worse = frozenset(e.key for e in stale if e.key in found)
+    return Comparison(baseline, replace(result, files=tuple(files)), tuple(new), tuple(known), tuple(stale), worse)

@@ -26,9 +26,10 @@ Formula
     boost: Σ Vf,max ≤ V_out,max and Σ Vf,min > V_in,max.
 
 Source
-    The headroom of linear sinks and of buck and boost drivers is common practice; one boost
-    LED-driver application report states it as "at least 2 V greater than the maximum LED
-    string voltage + the maximum headroom at LED sink pins".
+    The headroom of linear sinks and of buck and boost drivers is common practice: a boost
+    output must stand a margin above the highest string voltage plus the sink's own headroom,
+    and a buck or linear stage needs its input above the string plus sense and dropout
+    (Kirchhoff's voltage law round the loop).
 """
 
 from __future__ import annotations

@@ -31,7 +31,7 @@ Formula
 
 Source
     Device physics (common practice): a MOSFET conducts once |V_GS| passes its threshold, of
-    1-2.5 V for small-signal parts (field-facts §9); small-signal bipolar transistors have a
+    1-2.5 V for small-signal parts (common practice); small-signal bipolar transistors have a
     current gain of about 100 to 300 at 10 mA, the highest gain groups up to about 800 (from
     memory).
 """

@@ -147,6 +147,7 @@ def test_a_finding_that_got_worse_is_new(panel_files) -> None:
         compared = baseline.compare(result, b)
         assert (f in compared.new) is not covered
         assert len(compared.stale) == (0 if covered else 1)
+        assert any("now more severe" in line for line in compared.summary()) is not covered
     # A file written before entries carried a severity covers any severity.
     old = baseline.parse(json.dumps({"ledlint_baseline": 1, "entries": [
         {"file": "a.net", "rule": f.rule, "fingerprint": f.fingerprint}]}), "old.json")
