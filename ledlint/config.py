@@ -25,7 +25,7 @@ CONFIG_NAME = "ledlint.toml"
 LED_KEYS = ("Vf", "Vf_min", "Vf_max", "If_max", "Vr_max", "Rth", "Tj_max", "colour")
 RESISTOR_KEYS = ("Tolerance", "Power")
 PIN_KEYS = ("pin_current_max",)
-DRIVER_KEYS = ("driver", "sense_pins", "output_pin", "vref", "vref_tolerance", "current", "current_tolerance",
+DRIVER_KEYS = ("driver", "sense_pins", "vref", "vref_tolerance", "current", "current_tolerance",
                "current_max", "dropout", "vin_min", "vin_max", "vout_max")
 PART_KEYS = LED_KEYS + RESISTOR_KEYS + PIN_KEYS + DRIVER_KEYS
 DRIVER_KINDS = ("linear", "buck", "boost", "two-terminal")

@@ -168,7 +168,7 @@ def driver_current(driver: DriverIC, graph: NetGraph,
                    config: Config) -> tuple[SetCurrent | None, list[Missing], list[str]]:
     """A described driver's set-point; what to describe when it is not."""
     notes: list[str] = []
-    keys = ("driver, vref (and vref_tolerance) or current, sense_pins, output_pin, current_max, dropout, vin_min, "
+    keys = ("driver, vref (and vref_tolerance) or current, sense_pins, current_max, dropout, vin_min, "
             "vin_max, vout_max")
     kind_text = _setting(driver, "driver")
     if kind_text is None:
