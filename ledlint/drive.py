@@ -13,10 +13,10 @@ from ledlint.config import DRIVER_KINDS, Config
 from ledlint.engine import Range
 from ledlint.graph import NetGraph
 from ledlint.model import Pin
-from ledlint.params import PIN_RESISTANCE, Missing, Origin, Param, rail_params, resistor_params
+from ledlint.params import Missing, Origin, Param, rail_params, resistor_params
 from ledlint.parts import Kind, classify, transistor_pins
 from ledlint.recognise import DriverIC, LedCircuit, Reference, ReferenceKind, Sink
-from ledlint.supplies import ic_supply
+from ledlint.supplies import PIN_OUTPUT, ic_supply
 from ledlint.topology import ElementKind, drive_pin
 from ledlint.units import parse_current, parse_tolerance, parse_voltage
 
@@ -244,13 +244,18 @@ class SwitchDrive:
         """What reaches a bipolar base: the pin's current less what the tie bleeds off."""
         if self.current is None:
             return None
-        return Range(max(self.current.nominal - self.bleed.nominal, 0.0),
-                     max(self.current.minimum - self.bleed.maximum, 0.0),
-                     max(self.current.maximum - self.bleed.minimum, 0.0))
+        left = self.current - self.bleed
+        return Range(max(left.nominal, 0.0), max(left.minimum, 0.0), max(left.maximum, 0.0))
 
     @property
     def high_side(self) -> bool:
         return self.part in (Kind.PNP, Kind.PMOS)
+
+    @property
+    def level(self) -> Range | None:
+        """The voltage that drives the base or gate: the pin's high level for a low-side switch,
+        the switch's own rail (which the pin pulls down from) for a high-side one."""
+        return self.rail if self.high_side else self.io
 
 
 def switch_drives(circuit: LedCircuit, graph: NetGraph, config: Config) -> list[SwitchDrive]:
@@ -280,17 +285,17 @@ def switch_drives(circuit: LedCircuit, graph: NetGraph, config: Config) -> list[
         sup = ic_supply(ic, config) if ic is not None else None
         io = sup.volts if sup else None
         rails = Range(rail.nominal, rail.minimum, rail.maximum)
-        high = io if not high_side else rails
+        high = rails if high_side else io
         current, basis = None, ""
         if not mos and high is not None:
-            r = r_b + Range(PIN_RESISTANCE[1], PIN_RESISTANCE[0], PIN_RESISTANCE[2])
+            r = r_b + PIN_OUTPUT
             current = Range(max(high.nominal - VBE.nominal, 0.0) / r.nominal,
                             max(high.minimum - VBE.maximum, 0.0) / r.maximum,
                             max(high.maximum - VBE.minimum, 0.0) / r.minimum)
             through = f"through {resistor}" if resistor else "with no base resistor"
             basis = (f"{pin.ref} pin {pin.name or pin.number} drives {e.ref}'s base {through}: "
                      f"({high.maximum:.3g} V − V_BE {VBE.minimum:g} V) / ({r.minimum:.3g} Ω with the pin's output "
-                     f"resistance {PIN_RESISTANCE[0]:g}-{PIN_RESISTANCE[2]:g} Ω assumed)")
+                     f"resistance {PIN_OUTPUT.minimum:g}-{PIN_OUTPUT.maximum:g} Ω assumed)")
         elif io is not None:
             basis = f"{pin.ref} pin {pin.name or pin.number} drives {e.ref}'s gate; {sup.basis if sup else ''}"
         tie = next((c for p in graph.pins_on(control.net) if p.ref not in (e.ref, resistor)

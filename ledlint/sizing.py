@@ -17,9 +17,9 @@ from ledlint.engine import Circuit, Range, corners, monte_carlo
 from ledlint.engine.corners import ballast_scan
 from ledlint.drive import VBE, SwitchDrive
 from ledlint.eseries import ESeries, nearest_above, nearest_below, series_values
-from ledlint.params import PIN_RESISTANCE
 from ledlint.ratings import chip_for, derated_power
 from ledlint.recognise import CircuitKind
+from ledlint.supplies import PIN_OUTPUT
 from ledlint.units import quantity
 
 
@@ -122,7 +122,7 @@ def _size(ec: Circuit, limit: float) -> BallastFix | None:
 
 @dataclass(frozen=True)
 class HeadroomFix:
-    """What restores a resistor-fed string's headroom (see least_supply)."""
+    """What restores a resistor-fed string's headroom (see headroom_fix)."""
 
     supply: float | None  # V nominal, at the present supply's tolerance; None: no resistor can
     leds: int | None  # the most LEDs per string the present supply can take; None: no fewer will do
@@ -166,12 +166,11 @@ FORCED_GAIN = 10  # I_C / I_B for a bipolar switch driven hard into saturation (
 def base_resistor(drive: SwitchDrive, collector_max: float, limit: float) -> float | None:
     """The largest E24 base resistor that still saturates the switch at the forced gain with the
     weakest drive, if it also keeps the pin within `limit` with the strongest; else None."""
-    r_pin = Range(PIN_RESISTANCE[1], PIN_RESISTANCE[0], PIN_RESISTANCE[2])
-    high = drive.rail if drive.high_side else drive.io
+    high = drive.level
     if high is None:
         return None
-    largest = (high.minimum - VBE.maximum) * FORCED_GAIN / max(collector_max, 1e-9) - r_pin.maximum
-    least = (high.maximum - VBE.minimum) / limit - r_pin.minimum
+    largest = (high.minimum - VBE.maximum) * FORCED_GAIN / max(collector_max, 1e-9) - PIN_OUTPUT.maximum
+    least = (high.maximum - VBE.minimum) / limit - PIN_OUTPUT.minimum
     if largest <= 0:
         return None
     r = nearest_below(largest, ESeries.E24)

@@ -45,6 +45,8 @@ def _supply_pins(comp: Component) -> list[Pin]:
             and (p.type is PinType.POWER_IN or re.match(r"^(V|AV|DV|IOV)(CC|DD)", p.name, re.I))]
 
 
+# A controller pin's output resistance, first order: its supply behind 40-65 Ω (field-facts §9).
+PIN_OUTPUT = Range(PIN_RESISTANCE[1], PIN_RESISTANCE[0], PIN_RESISTANCE[2])
 _NOMINAL = "its voltage, e.g. nominal = 3.3"  # an example, not a guess at this rail
 
 
@@ -100,7 +102,7 @@ def end_voltage(graph: NetGraph, config: Config, t: Terminal | None, high: bool,
         return Range(r.nominal, r.minimum, r.maximum), Range.fixed(0.0)
     comp = graph.component(t.pin.ref) if t.pin is not None else None
     if t.kind is TerminalKind.PIN and comp is not None:
-        pr = Range(PIN_RESISTANCE[1], PIN_RESISTANCE[0], PIN_RESISTANCE[2])
+        pr = PIN_OUTPUT
         if not high:
             basis.append(f"{t.detail} sinks at 0 V, output resistance {pr.minimum:g}-{pr.maximum:g} Ω assumed")
             return Range.fixed(0.0), pr
