@@ -113,6 +113,11 @@ class LedCircuit:
         return tuple(e for e in self.elements if e.kind is ElementKind.RESISTOR)
 
     @property
+    def shared_resistors(self) -> tuple[Element, ...]:
+        """Resistors every string's current passes through: a bank's shared ballast, if any."""
+        return tuple(e for e in self.top + self.bottom if e.kind is ElementKind.RESISTOR)
+
+    @property
     def reversed_switches(self) -> tuple[Element, ...]:
         """Transistors in the LEDs' path fitted with their main terminals swapped."""
         return tuple(e for e in self.elements if e.kind is ElementKind.SWITCH and e.against and not e.held)

@@ -9,7 +9,6 @@ from ledlint.findings import Severity, quantity
 from ledlint.params import Missing, Origin, Param
 from ledlint.registry import RuleContext
 from ledlint.sizing import NoBallast, ballast_fix
-from ledlint.topology import ElementKind
 
 
 def assumed_param(name: str, p: Param | Missing | None, unit: str = "") -> list[str]:
@@ -90,8 +89,7 @@ def ballast_hint(ctx: RuleContext, a: Analysis, fallback: str) -> str:
     size = f"{fix.chip} or larger" if fix.chip else "a power resistor"
     unit = "LED" if all(len(b.leds) == 1 for b in a.circuit.branches) else "string"
     ballast = [e.ref for e in a.circuit.resistors]
-    shared = any(e.kind is ElementKind.RESISTOR for e in a.circuit.top + a.circuit.bottom)
-    if fix.per_string and not shared:  # each string has its own already: change them all
+    if fix.per_string and not a.circuit.shared_resistors:  # each string has its own already: change them all
         what = f"use {quantity(fix.resistance, 'Ω')} (E24) for each of {join(ballast)}"
     elif fix.per_string:
         what = f"give each {unit} its own {quantity(fix.resistance, 'Ω')} resistor (E24) instead of the shared one"

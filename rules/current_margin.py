@@ -38,7 +38,6 @@ from typing import Iterator
 
 from ledlint.findings import Finding, Severity, Value, quantity
 from ledlint.params import Param
-from ledlint.topology import ElementKind
 from ledlint.registry import Option, Rule, RuleContext
 from ledlint.analyse import Analysis
 from ledlint.rules._support import (ballast_hint, by_evidence, circuit_assumptions, ids, led_assumptions,
@@ -51,7 +50,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
         if not a.solved or a.unlimited:
             continue
         c = a.circuit
-        shared = any(e.kind is ElementKind.RESISTOR for e in c.top + c.bottom) or a.set_current is not None
+        shared = bool(c.shared_resistors) or a.set_current is not None
         if len(c.branches) > 1 and not c.individually_driven and shared:
             continue  # LEDs sharing a resistor or an output: shared-resistor-bank or driver-parallel-strings
         over = []  # (severity, led) for every LED past the margin; one finding per circuit

@@ -45,7 +45,6 @@ from ledlint.registry import Rule, RuleContext
 from ledlint.analyse import Analysis
 from ledlint.rules._support import ballast_hint, by_evidence, circuit_assumptions, ids, join, led_assumptions
 from ledlint.sizing import equal_share_resistor
-from ledlint.topology import ElementKind
 
 
 def check(ctx: RuleContext) -> Iterator[Finding]:
@@ -53,7 +52,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
         c = a.circuit
         if c.kind is not CircuitKind.BANK:
             continue
-        shared = [e.ref for e in c.top + c.bottom if e.kind is ElementKind.RESISTOR]
+        shared = [e.ref for e in c.shared_resistors]
         if not shared:
             continue  # strings each with their own resistor, sharing only a switch: current-margin's
         leds = list(c.leds)
