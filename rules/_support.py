@@ -8,7 +8,8 @@ from ledlint.analyse import Analysis, LedResult, ResistorResult
 from ledlint.findings import Severity, quantity
 from ledlint.params import Missing, Origin, Param
 from ledlint.registry import RuleContext
-from ledlint.sizing import NoBallast, ballast_fix
+from ledlint.drive import SwitchDrive
+from ledlint.sizing import FORCED_GAIN, NoBallast, ballast_fix, base_resistor
 
 
 def assumed_param(name: str, p: Param | Missing | None, unit: str = "") -> list[str]:
@@ -102,3 +103,22 @@ def ballast_hint(ctx: RuleContext, a: Analysis, fallback: str) -> str:
     if fix.low_ratio < ctx.option_of("supply-headroom", "min_ratio", 0.5):
         text += f"; at the low corner the current still falls to {quantity(fix.low_ratio, '%')} of nominal"
     return text
+
+
+def switch_current(a: Analysis) -> float:
+    """The most current a switch in the LEDs' path carries: every string at its worst."""
+    return max(r.current.maximum for r in a.leds) * max(len(a.circuit.branches), 1)
+
+
+def base_resistor_hint(a: Analysis, d: SwitchDrive, limit: float) -> str:
+    """The base resistor that saturates a bipolar switch and spares its pin (sizing.base_resistor)."""
+    collector = switch_current(a)
+    r_b = base_resistor(d, collector, limit)
+    if r_b is None:
+        return (f"no base resistor gives a tenth of {quantity(collector, 'A')} within the pin's "
+                f"{quantity(limit, 'A')}: switch with a logic-level N-MOSFET, or add a driver stage")
+    fit = (f"use {quantity(r_b, 'Ω')} (E24) for {d.resistor}" if d.resistor else
+           f"put {quantity(r_b, 'Ω')} (E24) between {d.pin.ref} pin {d.pin.name or d.pin.number} and "
+           f"{d.transistor}'s base")
+    return (f"{fit}: at least 1/{FORCED_GAIN} of the {quantity(collector, 'A')} LED current into the base at the "
+            f"weakest corner, and the pin within its {quantity(limit, 'A')}")

@@ -36,10 +36,9 @@ from typing import Iterator
 
 from ledlint.analyse import Analysis, PinResult
 from ledlint.drive import SwitchDrive
-from ledlint.findings import Finding, Severity, Value, quantity
-from ledlint.sizing import FORCED_GAIN, base_resistor
+from ledlint.findings import Finding, Severity, Value
 from ledlint.registry import Rule, RuleContext
-from ledlint.rules._support import assumed_param, ballast_hint, circuit_assumptions, ids
+from ledlint.rules._support import assumed_param, ballast_hint, base_resistor_hint, circuit_assumptions, ids
 
 
 def check(ctx: RuleContext) -> Iterator[Finding]:
@@ -69,15 +68,7 @@ def _base_finding(ctx: RuleContext, a: Analysis, p: PinResult, b: SwitchDrive, v
                   assumed: tuple[str, ...], verb: str) -> Finding:
     """A pin driving a switch's base: the base is a diode to the emitter, so only resistance
     between them limits the pin's current."""
-    collector = max(r.current.maximum for r in a.leds) * max(len(a.circuit.branches), 1)
-    r_b = base_resistor(b, collector, p.limit.value)
-    where = f"between {p.pin.ref} pin {p.pin.name or p.pin.number} and {b.transistor}'s base"
-    if r_b is None:
-        hint = f"raise the base resistance {where}, or switch the LEDs with a logic-level MOSFET"
-    else:
-        fit = f"use {quantity(r_b, 'Ω')} (E24) for {b.resistor}" if b.resistor else f"put {quantity(r_b, 'Ω')} (E24) {where}"
-        hint = (f"{fit}: at least 1/{FORCED_GAIN} of the {quantity(collector, 'A')} LED current into the base, "
-                f"and the pin within its {quantity(p.limit.value, 'A')}")
+    hint = base_resistor_hint(a, b, p.limit.value)
     base = f"through {b.resistor}" if b.resistor else "with no base resistor"
     part = ctx.board.parts.get(p.pin.ref)
     return ctx.finding(

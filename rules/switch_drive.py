@@ -41,12 +41,12 @@ from __future__ import annotations
 from typing import Iterator
 
 from ledlint.drive import VBE, VGS
-from ledlint.findings import Finding, Severity, Value, quantity
+from ledlint.findings import Finding, Severity, Value
 from ledlint.model import PinType
+from ledlint.params import PIN_LIMIT
 from ledlint.parts import Kind
 from ledlint.registry import Rule, RuleContext
-from ledlint.rules._support import circuit_assumptions, ids
-from ledlint.sizing import base_resistor
+from ledlint.rules._support import base_resistor_hint, circuit_assumptions, ids, switch_current
 
 # I_C / I_B past which a small-signal switch is not assured to saturate (typical gains reach about
 # 200 at 10 mA), and past which none will (the highest gain groups stop near 800) (from memory).
@@ -86,15 +86,12 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                              f"to its {terminal}'s rail, or run the LEDs from a rail {pin} can reach")
             base = d.base_current
             if d.part is Kind.NPN and base is not None and d.current is not None and d.current.minimum > 0:
-                collector = max(r.current.maximum for r in a.leds) * max(len(c.branches), 1)
+                collector = switch_current(a)
                 gain = collector / max(base.minimum, 1e-12)
                 if gain <= GAIN_WARNING:
                     continue
                 severity = Severity.ERROR if gain > GAIN_ERROR else Severity.WARNING
-                limit = next((p.limit.value for p in a.pins if p.pin is d.pin or p.pin == d.pin), 0.020)
-                r_b = base_resistor(d, collector, limit)
-                fit = (f"use {quantity(r_b, 'Ω')} (E24) for {d.resistor}" if r_b and d.resistor else
-                       f"a base resistor of {quantity(r_b, 'Ω')} (E24)" if r_b else "")
+                limit = next((p.limit.value for p in a.pins if p.pin == d.pin), PIN_LIMIT)
                 yield ctx.finding(
                     a, severity, "{q} is not driven into saturation: {pin} gives its base as little as {ib} "
                     "{through}, for up to {ic} of LED current, a current gain of {times} (saturated switching "
@@ -104,9 +101,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                     q=d.transistor, pin=pin, through=f"through {d.resistor}" if d.resistor else "",
                     times=f"{gain:,.0f}" if base.minimum > 0 else "without bound",
                     assumed=(d.basis, *circuit_assumptions(a)),
-                    hint=f"{fit}: a tenth of the LED current into the base at the weakest corner" if fit else
-                    f"no base resistor gives a tenth of {quantity(collector, 'A')} within the pin's "
-                    f"{quantity(limit, 'A')}: switch with a logic-level N-MOSFET, or add a driver stage")
+                    hint=base_resistor_hint(a, d, limit))
 
 
 RULE = Rule(
