@@ -18,7 +18,7 @@ from ledlint.parts import Kind, classify, transistor_pins
 from ledlint.recognise import DriverIC, LedCircuit, Reference, ReferenceKind, Sink
 from ledlint.supplies import PIN_OUTPUT, ic_supply
 from ledlint.topology import ElementKind, drive_pin
-from ledlint.units import parse_current, parse_tolerance, parse_voltage
+from ledlint.units import parse_current, parse_tolerance, parse_voltage, quantity
 
 # Silicon base-emitter voltage at 1-100 mA: 0.65 V nominal, 0.55-0.75 V over parts and current,
 # falling 2 mV/K (common practice).
@@ -294,7 +294,7 @@ def switch_drives(circuit: LedCircuit, graph: NetGraph, config: Config) -> list[
                             max(high.maximum - VBE.minimum, 0.0) / r.minimum)
             through = f"through {resistor}" if resistor else "with no base resistor"
             basis = (f"{pin.ref} pin {pin.name or pin.number} drives {e.ref}'s base {through}: "
-                     f"({high.maximum:.3g} V − V_BE {VBE.minimum:g} V) / ({r.minimum:.3g} Ω with the pin's output "
+                     f"({high.maximum:.3g} V − V_BE {VBE.minimum:g} V) / ({quantity(r.minimum, 'Ω')} with the pin's output "
                      f"resistance {PIN_OUTPUT.minimum:g}-{PIN_OUTPUT.maximum:g} Ω assumed)")
         elif io is not None:
             basis = f"{pin.ref} pin {pin.name or pin.number} drives {e.ref}'s gate; {sup.basis if sup else ''}"

@@ -353,11 +353,9 @@ def _orient(chain: list[Element]) -> Segment:
 # A transistor fitted with its main terminals swapped, against the LEDs' current (common practice;
 # a MOSFET's body diode runs from source to drain in an N-channel part, drain to source in a
 # P-channel one, so swapped, it is forward-biased by the LEDs' own supply).
-REVERSED_SWITCH = {
-    Kind.NMOS: "{ref} has drain and source swapped: its body diode conducts whatever its gate does, so it cannot turn the LEDs off",
-    Kind.PMOS: "{ref} has drain and source swapped: its body diode conducts whatever its gate does, so it cannot turn the LEDs off",
-    Kind.NPN: "{ref} has collector and emitter swapped: run in reverse it barely switches (a current gain of a few) "
-              "and its base-emitter junction breaks down at about 6 V",
-    Kind.PNP: "{ref} has collector and emitter swapped: run in reverse it barely switches (a current gain of a few) "
-              "and its base-emitter junction breaks down at about 6 V",
-}
+_SWAPPED_MOSFET = ("{ref} has drain and source swapped: its body diode conducts whatever its gate does, so it "
+                   "cannot turn the LEDs off")
+_SWAPPED_BIPOLAR = ("{ref} has collector and emitter swapped: run in reverse it barely switches (a current gain "
+                    "of a few) and its base-emitter junction breaks down at about 6 V")
+REVERSED_SWITCH = {Kind.NMOS: _SWAPPED_MOSFET, Kind.PMOS: _SWAPPED_MOSFET,
+                   Kind.NPN: _SWAPPED_BIPOLAR, Kind.PNP: _SWAPPED_BIPOLAR}

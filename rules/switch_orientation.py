@@ -38,6 +38,7 @@ from __future__ import annotations
 from typing import Iterator
 
 from ledlint.findings import Finding, Severity
+from ledlint.parts import Kind
 from ledlint.registry import Rule, RuleContext
 from ledlint.rules._support import by_evidence, circuit_assumptions, ids
 from ledlint.topology import REVERSED_SWITCH
@@ -47,8 +48,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
     for a in ctx.analyses:
         c = a.circuit
         for q in c.reversed_switches:
-            mos = q.part.value.endswith("mos")
-            terminals = "drain and source" if mos else "collector and emitter"
+            terminals = "drain and source" if q.part in (Kind.NMOS, Kind.PMOS) else "collector and emitter"
             # The pins' roles rest on an assumed pinout when the symbol does not name them: then
             # the finding may be the assumption's, one step less severe.
             severity = by_evidence(Severity.ERROR, bool(q.assumption))
