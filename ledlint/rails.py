@@ -50,6 +50,7 @@ _VOLTAGE_WORD = re.compile(
     r"(?:P(?=[0-9]))?(?P<volts>[+\-]?[0-9]+(?:V[0-9]+|\.[0-9]+V|V))(?P<suffix>A|D|SB|DC|AC|~)?", re.IGNORECASE
 )
 _AC_PREFIX = re.compile(r"~\s*")
+_GLUED_SUPPLY = re.compile(r"(V[A-Z]+)([0-9]+(?:V[0-9]*|\.[0-9]+V))")  # "VCC3V3": a supply word and its voltage
 _MAX_RAIL = 100_000.0  # V: beyond any board's supply (config rails are held to ±10 kV)
 _VBUS_WORDS = frozenset({"VBUS", "VUSB"})
 _USB_WORDS = _VBUS_WORDS | {"USB"}
@@ -93,8 +94,6 @@ def _words(name: str) -> list[str]:
         out += [m.group(1), m.group(2)] if m and m.group(1) in _SUPPLY_WORDS else [word] if word else []
     return out
 
-
-_GLUED_SUPPLY = re.compile(r"(V[A-Z]+)([0-9]+(?:V[0-9]*|\.[0-9]+V))")
 
 
 @lru_cache(maxsize=16384)  # a board asks about the same few nets for every circuit on them

@@ -213,9 +213,11 @@ def balancing_for(analysis: Analysis, limit: float, tolerance: float = 0.01) -> 
     candidates = [v for v in _candidates(0.1, 5) if v > present * (1 + 1e-9)]
     target, samples, seed = limit, analysis.sharing.samples, analysis.sharing.seed
 
+    def fitted(r: float) -> Circuit:
+        return replace(ec, branches=tuple(replace(b, r=Range.tolerance(r, tolerance)) for b in ec.branches))
+
     def spread(r: float) -> tuple[float, float]:
-        fitted = replace(ec, branches=tuple(replace(b, r=Range.tolerance(r, tolerance)) for b in ec.branches))
-        mc = monte_carlo(fitted, samples=samples, seed=seed)
+        mc = monte_carlo(fitted(r), samples=samples, seed=seed)
         return float(mc.spread_summary.p99), float(mc.solution.branch_resistor_power.max())
 
     if not candidates or spread(candidates[-1])[0] > target:
@@ -230,6 +232,5 @@ def balancing_for(analysis: Analysis, limit: float, tolerance: float = 0.01) -> 
     r = candidates[lo]
     got, power = spread(r)
     # The rating must cover the corners too, as resistor-overload will check the fitted board.
-    fitted = replace(ec, branches=tuple(replace(b, r=Range.tolerance(r, tolerance)) for b in ec.branches))
-    power = max(power, float(corners(fitted).solution.branch_resistor_power.max()))
+    power = max(power, float(corners(fitted(r)).solution.branch_resistor_power.max()))
     return BalancingFix(r, tolerance, got, r * share, power, present > 0)
