@@ -153,6 +153,7 @@ class _Builder:
     locator: Locator
     notes: list[Note]
     kicad10: bool = False
+    version: str = ""
     libpins: dict[tuple[str, str], dict[str, tuple[str, str]]] = field(default_factory=dict)
 
     def note(self, item: SList, message: str) -> None:
@@ -175,7 +176,7 @@ class _Builder:
                                       "from the schematic editor")
             raise self.fail(root, f"not a KiCad netlist: the file starts with '({root.head}', expected '(export'")
         sections = _children(root)
-        version = _atom(sections.get("version"))
+        version = self.version = _atom(sections.get("version"))
         if version not in ("D", "E"):
             self.note(sections.get("version", root), f"unknown netlist version {version!r}; read as version E")
         design = sections.get("design")
@@ -214,9 +215,8 @@ class _Builder:
         for net in _sublists(nets, "net"):
             sec = _children(net)
             name = _atom(sec.get("name"))
-            if not name:  # KiCad always names a net; a hand-edited file may not, and "" reads as nothing
-                name = f"(unnamed net {_atom(sec.get('code')) or len(items) + 1})"
-                self.note(net, f"a net without a name; reported as {name}")
+            if not name:
+                name = self._unnamed(net, sec, len(items) + 1, seen_names)
             if name in seen_names:
                 self.note(net, f"net name {name!r} appears twice; the second net's pins are merged into the first")
             seen_names.add(name)
@@ -235,6 +235,21 @@ class _Builder:
                     self.note(node, f"pin {ref}.{pin} is on two nets, {old.net!r} and {name!r}; "
                                     f"kept on {old.net!r}")
         return nodes, items
+
+    def _unnamed(self, net: SList, sec: dict[str, SList], position: int, taken: set[str]) -> str:
+        """A name for a net written without one. KiCad before 4.0 (the 2013 releases, version D)
+        wrote "" for every net nobody named, told apart by code; later releases call such a net
+        Net-(REF-PadN) after a pin on it (kicad-netlist-format.md, net-name shapes), so that name is given
+        here. From a newer release an empty name means a hand-edited file: noted."""
+        first = next(iter(_sublists(net, "node")), None)
+        ref, pin = (_atom(_children(first).get(k)) for k in ("ref", "pin")) if first is not None else ("", "")
+        if self.version == "D" and ref and pin:
+            name = f"Net-({ref}-Pad{pin})"
+            if name not in taken:
+                return name
+        name = f"(unnamed net {_atom(sec.get('code')) or position})"
+        self.note(net, f"a net without a name; reported as {name}")
+        return name
 
     def _pin_name(self, function: str, number: str) -> str:
         # KiCad 10 writes pinfunction as name_number (§3.2); strip exactly that suffix.

@@ -42,6 +42,7 @@ _SIGN = r"[+\-\u2212]"
 _START = r"(?<![\w.+\-\u2212])(?<![0-9][,/])"
 _END = r"(?![\w])"
 
+# A unit letter R followed by digits or '_' starts a case code ("2.2k R0402"), not the unit.
 # IEC 60062 letters for resistance; 'r' and 'k' are written in lowercase too.  In a resistor
 # value 'M' is mega, following the schematic convention; SPICE reads 'M' as milli and wants 'Meg'.
 # Multipliers are powers of ten, applied through the decimal text so "4.7k" is exactly 4700.0.
@@ -58,7 +59,7 @@ _RESISTANCE = re.compile(
         (?P<si_num>[0-9]+(?:[.,][0-9]+)?|[.,][0-9]+)(?P<si_exp>[eE][+-]?[0-9]+)?
         (?:\s*(?P<si_prefix>Meg|MEG|meg|[kKMGTLm]))?
     )
-    (?:\s*(?P<unit>[\u03a9\u2126]|[oO][hH][mM][sS]?|[Rr]))?
+    (?:\s*(?P<unit>[\u03a9\u2126]|[oO][hH][mM][sS]?|[Rr](?![0-9_])))?
     """,
     re.VERBOSE,
 )
@@ -98,7 +99,9 @@ _TEMPERATURE = re.compile(
     r"\s*(?P<sign>" + _SIGN + r")?(?P<num>" + _NUM + r")\s*(?:°\s*C|\u2103|C|deg\s*C)?\s*"
 )
 _PREFIX_EXPONENT = {"": 0, "m": -3, "k": 3, "µ": -6, "μ": -6, "u": -6, "n": -9}
-_CASE_SIZE = re.compile("|".join(sorted(CHIP_SIZES)))
+# A chip case code, bare or with its part letter as BOM and footprint names write it ("R0402",
+# "R_0603"; common practice).
+_CASE_SIZE = re.compile("(?:[RCL]_?)?(?:" + "|".join(sorted(CHIP_SIZES)) + ")")
 _BLANKS = re.compile(r"\s{2,}")
 _TCR = re.compile(r"[0-9]+\s*ppm(?:/(?:K|°C))?")
 _VOLTAGE_RATING = re.compile(r"(?:" + _NUM + r")\s*k?V")

@@ -51,11 +51,19 @@ def regex_counts(text: str) -> tuple[int, int, int]:
     return len(_COMP.findall(text)), len(_NET.findall(text)), leds
 
 
+# LEDs the MANIFEST's naive scan leaves out, each read off the file itself: the scan drops refs
+# starting with P as connectors.
+_MISSED_BY_THE_SCAN = {"esp32-poe-board-status-leds.net": ("PWR1",)}  # value LED/RED/0603
+
+
 def test_every_corpus_file_reads_with_independently_counted_parts(corpus: list[Path]) -> None:
     assert len(corpus) >= 9
     for path in corpus:
         netlist = read_netlist(path)
         comps, nets, leds = regex_counts(path.read_text(encoding="utf-8"))
+        missed = _MISSED_BY_THE_SCAN.get(path.name, ())
+        assert all(netlist.component(ref).value.startswith("LED/") for ref in missed)
+        leds += len(missed)
         ours = sum(classify(c) in (Kind.LED, Kind.LED_ADDRESSABLE) for c in netlist.components)
         assert (len(netlist.components), len(netlist.nets), ours) == (comps, nets, leds), path.name
         assert netlist.notes == (), path.name

@@ -135,6 +135,18 @@ def test_a_net_without_a_name_gets_one_a_report_can_show() -> None:
     assert [note.message for note in n.notes] == ["a net without a name; reported as (unnamed net 7)"]
 
 
+def test_a_2013_export_names_its_unnamed_nets_as_later_kicad_does() -> None:
+    # KiCad's 2013 releases (version D) wrote (name "") for every unlabelled net, told apart by
+    # code (corpus MANIFEST, bench-supply kit); KiCad 5 and 6 name such a net Net-(REF-PadN)
+    # after a pin on it (kicad-netlist-format.md, net-name shapes). That is no fault of the file.
+    n = parse_netlist("(export (version D) (components (comp (ref R1) (value 1k)) (comp (ref D1) (value LED)))"
+                      ' (nets (net (code 1) (name "") (node (ref R1) (pin 2)) (node (ref D1) (pin 2)))'
+                      ' (net (code 2) (name "") (node (ref R1) (pin 1)))))')
+    assert n.component("D1").pin("2").net == "Net-(R1-Pad2)"
+    assert n.component("R1").pin("1").net == "Net-(R1-Pad1)"
+    assert n.notes == ()
+
+
 def test_kicad10_pin_functions_are_known_without_the_tool_line() -> None:
     # KiCad 10 writes pinfunction as name_number (kicad-netlist-format.md §3.2); a file that lost
     # its tool line, or a nightly's, shows it by every named pin carrying its number.
