@@ -16,7 +16,7 @@ import sexpdata
 sys.path.insert(0, str(Path(__file__).parent))
 from generate import best_of, netlist  # noqa: E402
 
-from ledlint.run import check  # noqa: E402
+from ledlint.review.run import check  # noqa: E402
 
 
 

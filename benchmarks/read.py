@@ -15,7 +15,7 @@ import sexpdata
 sys.path.insert(0, str(Path(__file__).parent))
 from generate import best_of, netlist  # noqa: E402
 
-from ledlint.reader import read_netlist  # noqa: E402
+from ledlint.netlist.kicad_net import read_netlist  # noqa: E402
 
 
 

@@ -17,8 +17,8 @@ from typing import Callable, Iterator, Sequence
 
 from ledlint import __version__
 from ledlint.errors import LedlintError, failure_reason
-from ledlint.registry import rule_doc
-from ledlint.run import FAIL_LEVELS, RunResult, check, load_rules
+from ledlint.checks.registry import rule_doc
+from ledlint.review.run import FAIL_LEVELS, RunResult, check, load_rules
 
 EXIT_CLEAN, EXIT_FINDINGS, EXIT_BAD_INPUT, EXIT_INTERNAL = 0, 1, 2, 3
 EXIT_INTERRUPTED = 130  # the shell's 128 + SIGINT
@@ -178,7 +178,7 @@ def _render(fmt: str, result: RunResult, args: argparse.Namespace) -> str:
 
 
 def cmd_check(args: argparse.Namespace) -> int:
-    baseline = _module("ledlint.baseline")
+    baseline = _module("ledlint.review.baseline")
     known = baseline.load(args.baseline) if args.baseline else None
     with _progress() as progress:
         result = check(find_netlists(args.paths), config_path=args.config, progress=progress)
@@ -194,15 +194,15 @@ def cmd_check(args: argparse.Namespace) -> int:
 def cmd_baseline(args: argparse.Namespace) -> int:
     with _progress() as progress:
         result = check(find_netlists(args.paths), config_path=args.config, progress=progress)
-    write_whole(_module("ledlint.baseline").render(result, args.output), args.output)
+    write_whole(_module("ledlint.review.baseline").render(result, args.output), args.output)
     print(f"{args.output}: recorded {len(result.findings)} finding(s) from {len(result.files)} file(s)",
           file=sys.stderr)
     return EXIT_CLEAN
 
 
 def cmd_diff(args: argparse.Namespace) -> int:
-    diff = _module("ledlint.diff")
-    write_whole(diff.FORMATS[args.format](diff.diff_files(args.old, args.new, config_path=args.config)), args.output)
+    diff = _module("ledlint.review.diff").diff_files(args.old, args.new, config_path=args.config)
+    write_whole(_module(FORMATS[args.format]).render_diff(diff), args.output)
     return EXIT_CLEAN
 
 

@@ -16,7 +16,7 @@ from ledlint.frozen import FrozenMap
 from typing import Any, Mapping
 
 from ledlint.errors import ConfigError, read_utf8
-from ledlint.units import (Quantity, parse_current, parse_power, parse_temperature, parse_thermal_resistance,
+from ledlint.quantities.units import (Quantity, parse_current, parse_power, parse_temperature, parse_thermal_resistance,
                            parse_tolerance, parse_vf, parse_voltage)
 
 CONFIG_NAME = "ledlint.toml"

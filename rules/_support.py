@@ -4,12 +4,12 @@ from __future__ import annotations
 
 from typing import Iterable
 
-from ledlint.analyse import Analysis, LedResult, ResistorResult
-from ledlint.findings import Severity, quantity
-from ledlint.params import Missing, Origin, Param
-from ledlint.registry import RuleContext
-from ledlint.drive import SwitchDrive
-from ledlint.sizing import FORCED_GAIN, NoBallast, ballast_fix, base_resistor
+from ledlint.analysis.board import Analysis, LedResult, ResistorResult
+from ledlint.checks.findings import Severity, quantity
+from ledlint.parts.params import Missing, Origin, Param
+from ledlint.checks.registry import RuleContext
+from ledlint.analysis.drive import SwitchDrive
+from ledlint.analysis.sizing import FORCED_GAIN, NoBallast, ballast_fix, base_resistor
 
 
 def assumed_param(name: str, p: Param | Missing | None, unit: str = "") -> list[str]:

@@ -36,10 +36,10 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ledlint.findings import Finding, Severity, Value, quantity
-from ledlint.params import Param
-from ledlint.registry import Option, Rule, RuleContext
-from ledlint.analyse import Analysis
+from ledlint.checks.findings import Finding, Severity, Value, quantity
+from ledlint.parts.params import Param
+from ledlint.checks.registry import Option, Rule, RuleContext
+from ledlint.analysis.board import Analysis
 from ledlint.rules._support import (ballast_hint, by_evidence, circuit_assumptions, ids, led_assumptions,
                                     resistor_assumptions)
 

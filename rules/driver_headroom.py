@@ -36,10 +36,10 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ledlint.findings import Finding, Severity, Value
-from ledlint.params import known
-from ledlint.recognise import CircuitKind
-from ledlint.registry import Rule, RuleContext
+from ledlint.checks.findings import Finding, Severity, Value
+from ledlint.parts.params import known
+from ledlint.circuits.recognise import CircuitKind
+from ledlint.checks.registry import Rule, RuleContext
 from ledlint.rules._support import circuit_assumptions, ids, led_assumptions
 
 

@@ -37,14 +37,14 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ledlint.ratings import chip_for
-from ledlint.analyse import Analysis, ResistorRole
-from ledlint.findings import Finding, Severity, Value, quantity
-from ledlint.params import Param
-from ledlint.recognise import CircuitKind
-from ledlint.registry import Option, Rule, RuleContext
+from ledlint.quantities.ratings import chip_for
+from ledlint.analysis.board import Analysis, ResistorRole
+from ledlint.checks.findings import Finding, Severity, Value, quantity
+from ledlint.parts.params import Param
+from ledlint.circuits.recognise import CircuitKind
+from ledlint.checks.registry import Option, Rule, RuleContext
 from ledlint.rules._support import by_evidence, circuit_assumptions, ids, led_assumptions
-from ledlint.sizing import balancing_for
+from ledlint.analysis.sizing import balancing_for
 
 # More than this across a balancing resistor wastes more than it balances (common practice).
 _MAX_BALANCING_DROP = 2.0

@@ -34,10 +34,10 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ledlint.analyse import Analysis
-from ledlint.findings import Finding, Severity, Value
-from ledlint.params import Param
-from ledlint.registry import Rule, RuleContext
+from ledlint.analysis.board import Analysis
+from ledlint.checks.findings import Finding, Severity, Value
+from ledlint.parts.params import Param
+from ledlint.checks.registry import Rule, RuleContext
 from ledlint.rules._support import assumed_param, by_evidence, circuit_assumptions
 
 

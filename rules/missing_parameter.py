@@ -31,9 +31,9 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ledlint.drive import NO_SENSE
-from ledlint.findings import Finding, Severity
-from ledlint.registry import Rule, RuleContext
+from ledlint.analysis.drive import NO_SENSE
+from ledlint.checks.findings import Finding, Severity
+from ledlint.checks.registry import Rule, RuleContext
 from ledlint.rules._support import ids
 
 

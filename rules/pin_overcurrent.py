@@ -34,10 +34,10 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ledlint.analyse import Analysis, PinResult
-from ledlint.drive import SwitchDrive
-from ledlint.findings import Finding, Severity, Value
-from ledlint.registry import Rule, RuleContext
+from ledlint.analysis.board import Analysis, PinResult
+from ledlint.analysis.drive import SwitchDrive
+from ledlint.checks.findings import Finding, Severity, Value
+from ledlint.checks.registry import Rule, RuleContext
 from ledlint.rules._support import assumed_param, ballast_hint, base_resistor_hint, circuit_assumptions, ids
 
 

@@ -36,11 +36,11 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ledlint.analyse import ResistorRole
-from ledlint.findings import Finding, Severity, Value, quantity
-from ledlint.params import Param
-from ledlint.ratings import chip_for, derated_power
-from ledlint.registry import Option, Rule, RuleContext
+from ledlint.analysis.board import ResistorRole
+from ledlint.checks.findings import Finding, Severity, Value, quantity
+from ledlint.parts.params import Param
+from ledlint.quantities.ratings import chip_for, derated_power
+from ledlint.checks.registry import Option, Rule, RuleContext
 from ledlint.rules._support import circuit_assumptions, resistor_assumptions
 
 _ROLE = {ResistorRole.BALLAST: "ballast", ResistorRole.BALANCING: "balancing resistor",

@@ -34,8 +34,8 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ledlint.findings import Finding, Severity, Value
-from ledlint.registry import Rule, RuleContext
+from ledlint.checks.findings import Finding, Severity, Value
+from ledlint.checks.registry import Rule, RuleContext
 from ledlint.rules._support import assumed_param, circuit_assumptions
 
 

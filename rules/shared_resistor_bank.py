@@ -38,13 +38,13 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ledlint.findings import Finding, Severity, Value, quantity
-from ledlint.params import Param, known
-from ledlint.recognise import CircuitKind
-from ledlint.registry import Rule, RuleContext
-from ledlint.analyse import Analysis
+from ledlint.checks.findings import Finding, Severity, Value, quantity
+from ledlint.parts.params import Param, known
+from ledlint.circuits.recognise import CircuitKind
+from ledlint.checks.registry import Rule, RuleContext
+from ledlint.analysis.board import Analysis
 from ledlint.rules._support import ballast_hint, by_evidence, circuit_assumptions, ids, join, led_assumptions
-from ledlint.sizing import equal_share_resistor
+from ledlint.analysis.sizing import equal_share_resistor
 
 
 def check(ctx: RuleContext) -> Iterator[Finding]:

@@ -39,10 +39,10 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ledlint.findings import Finding, Severity, Value, quantity
-from ledlint.registry import Option, Rule, RuleContext
-from ledlint.sizing import headroom_fix
-from ledlint.topology import TerminalKind
+from ledlint.checks.findings import Finding, Severity, Value, quantity
+from ledlint.checks.registry import Option, Rule, RuleContext
+from ledlint.analysis.sizing import headroom_fix
+from ledlint.circuits.topology import TerminalKind
 from ledlint.rules._support import by_evidence, circuit_assumptions, ids, is_default, led_assumptions
 
 

@@ -40,12 +40,12 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ledlint.drive import VBE, VGS
-from ledlint.findings import Finding, Severity, Value
-from ledlint.model import PinType
-from ledlint.params import PIN_LIMIT
-from ledlint.parts import Kind
-from ledlint.registry import Rule, RuleContext
+from ledlint.analysis.drive import VBE, VGS
+from ledlint.checks.findings import Finding, Severity, Value
+from ledlint.netlist.model import PinType
+from ledlint.parts.params import PIN_LIMIT
+from ledlint.parts.kinds import Kind
+from ledlint.checks.registry import Rule, RuleContext
 from ledlint.rules._support import base_resistor_hint, circuit_assumptions, ids, switch_current
 
 # I_C / I_B past which a small-signal switch is not assured to saturate (typical gains reach about

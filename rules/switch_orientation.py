@@ -37,11 +37,11 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ledlint.findings import Finding, Severity
-from ledlint.parts import Kind
-from ledlint.registry import Rule, RuleContext
+from ledlint.checks.findings import Finding, Severity
+from ledlint.parts.kinds import Kind
+from ledlint.checks.registry import Rule, RuleContext
 from ledlint.rules._support import by_evidence, circuit_assumptions, ids
-from ledlint.topology import REVERSED_SWITCH
+from ledlint.circuits.topology import REVERSED_SWITCH
 
 
 def check(ctx: RuleContext) -> Iterator[Finding]:

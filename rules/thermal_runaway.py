@@ -36,8 +36,8 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ledlint.findings import Finding, Severity, Value
-from ledlint.registry import Option, Rule, RuleContext
+from ledlint.checks.findings import Finding, Severity, Value
+from ledlint.checks.registry import Option, Rule, RuleContext
 from ledlint.rules._support import assumed_param, by_evidence, circuit_assumptions, ids
 
 

@@ -32,9 +32,9 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ledlint.drive import NO_SENSE
-from ledlint.findings import Finding, Severity, Value
-from ledlint.registry import Rule, RuleContext
+from ledlint.analysis.drive import NO_SENSE
+from ledlint.checks.findings import Finding, Severity, Value
+from ledlint.checks.registry import Rule, RuleContext
 from ledlint.rules._support import ballast_hint, circuit_assumptions, ids
 
 

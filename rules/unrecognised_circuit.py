@@ -30,9 +30,9 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ledlint.findings import Finding, Severity
-from ledlint.recognise import CircuitKind
-from ledlint.registry import Rule, RuleContext
+from ledlint.checks.findings import Finding, Severity
+from ledlint.circuits.recognise import CircuitKind
+from ledlint.checks.registry import Rule, RuleContext
 from ledlint.rules._support import ids
 
 

@@ -104,12 +104,12 @@ def fixed_run(tmp_path: Path, monkeypatch: pytest.MonkeyPatch):
     """A run with findings written out by hand (not computed), for the format golden files: they
     pin each format's layout, and stay put when a rule's wording or the engine's figures change.
     The netlist is real (revision A with a field waiver on D2), so lines and waivers are too."""
-    from ledlint.analyse import BoardAnalysis
+    from ledlint.analysis.board import BoardAnalysis
     from ledlint.config import Waiver
-    from ledlint.findings import Finding, Severity, Value
-    from ledlint.reader import read_netlist
-    from ledlint.registry import Option, Rule
-    from ledlint.run import FileResult, RunResult
+    from ledlint.checks.findings import Finding, Severity, Value
+    from ledlint.netlist.kicad_net import read_netlist
+    from ledlint.checks.registry import Option, Rule
+    from ledlint.review.run import FileResult, RunResult
 
     monkeypatch.chdir(tmp_path)
     (tmp_path / "boards").mkdir()

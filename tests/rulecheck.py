@@ -7,8 +7,8 @@ from pathlib import Path
 
 from kicad8 import Board
 
-from ledlint.findings import Finding, Value
-from ledlint.run import FileResult, check
+from ledlint.checks.findings import Finding, Value
+from ledlint.review.run import FileResult, check
 
 # Every corner at 25 °C, the temperature datasheets state Vf at: a Vf field given at the test
 # current then holds exactly, and hand calculations need no temperature coefficient.
@@ -68,7 +68,7 @@ def shockley_current(volts: float, vf: float, i_test: float, n: float, rs: float
 
 
 def run_board(board: Board, folder: Path, config: str = DATASHEET_AMBIENT) -> FileResult:
-    """Write the board's netlist and a ledlint.toml beside it, and check it through ledlint.run."""
+    """Write the board's netlist and a ledlint.toml beside it, and check it through ledlint.review.run."""
     net = folder / f"{board.name}.net"
     net.write_text(board.text(), encoding="utf-8")
     toml = folder / "ledlint.toml"

@@ -11,9 +11,9 @@ from pathlib import Path
 import pytest
 
 from conftest import workshop_panel
-from ledlint import baseline
+from ledlint.review import baseline
 from ledlint.errors import LedlintError
-from ledlint.run import check
+from ledlint.review.run import check
 
 
 def ledlint(*args: str, cwd: Path | None = None) -> subprocess.CompletedProcess[str]:
@@ -138,7 +138,7 @@ def test_files_not_checked_leave_their_entries_alone(panel_files) -> None:
 def test_a_finding_that_got_worse_is_new(panel_files) -> None:
     """A baseline accepts what was known, not worse (common practice for lint baselines): an entry
     recorded as a warning does not cover the same finding as an error, and is left stale."""
-    from ledlint.findings import Severity
+    from ledlint.checks.findings import Severity
 
     result = check([panel_files["A"]])
     f = next(x for x in result.findings if x.severity is Severity.ERROR)

@@ -9,7 +9,7 @@ from kicad8 import Board
 from rulecheck import run_board
 
 from ledlint.report import text
-from ledlint.run import RunResult
+from ledlint.review.run import RunResult
 
 
 def string_on(rail: str, leds: int) -> Board:

@@ -6,8 +6,8 @@ import pytest
 
 from ledlint.config import Config, discover, from_mapping, load
 from ledlint.errors import ConfigError
-from ledlint.run import load_rules
-from ledlint.registry import settings
+from ledlint.review.run import load_rules
+from ledlint.checks.registry import settings
 
 
 def test_defaults_without_a_file() -> None:
@@ -150,7 +150,7 @@ def test_settings_that_match_no_part_are_reported(tmp_path) -> None:
     """A mistyped reference would change nothing; the run says which tables matched no part."""
     from kicad8 import Board
 
-    from ledlint.run import check
+    from ledlint.review.run import check
 
     b = Board("cfg", "unused settings")
     b.resistor("R1", "330", "+5V", "/A")

@@ -7,8 +7,8 @@ from pathlib import Path
 
 from paths import CORPUS
 
-from ledlint.parts import Kind, classify
-from ledlint.reader import read_netlist
+from ledlint.parts.kinds import Kind, classify
+from ledlint.netlist.kicad_net import read_netlist
 
 # The independent count is the corpus MANIFEST's own method ("How the numbers were
 # counted"): naive regexes over the decoded text, nothing shared with the reader.

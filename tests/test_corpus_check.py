@@ -7,8 +7,8 @@ import subprocess
 import sys
 import tempfile
 
-from ledlint.parts import Kind, classify, led_dies
-from ledlint.reader import read_netlist
+from ledlint.parts.kinds import Kind, classify, led_dies
+from ledlint.netlist.kicad_net import read_netlist
 
 
 def _leds(path) -> set[str]:

@@ -9,11 +9,13 @@ from collections import Counter
 
 import pytest
 
-from ledlint import diff
-from ledlint.diff import Moved, Quantity, Status
-from ledlint.findings import Finding, Severity
-from ledlint.recognise import CircuitKind, LedCircuit
-from ledlint.run import check
+from ledlint.report import json_doc, markdown
+from ledlint.report import text as text_report
+from ledlint.review import diff
+from ledlint.review.diff import Moved, Quantity, Status
+from ledlint.checks.findings import Finding, Severity
+from ledlint.circuits.recognise import CircuitKind, LedCircuit
+from ledlint.review.run import check
 
 
 @pytest.fixture
@@ -90,8 +92,8 @@ def test_findings_that_appeared_and_went_away(a_to_b, panel_files) -> None:
 def test_same_netlist_is_no_change(panel_files) -> None:
     d = diff.diff_files(panel_files["C"], panel_files["C"])
     assert {c.status for c in d.circuits} == {Status.UNCHANGED}
-    assert "No electrical change." in diff.render_markdown(d)
-    assert diff.render_text(d).splitlines()[-1].startswith("0 circuit(s) changed, 0 added, 0 removed, 4 unchanged")
+    assert "No electrical change." in markdown.render_diff(d)
+    assert text_report.render_diff(d).splitlines()[-1].startswith("0 circuit(s) changed, 0 added, 0 removed, 4 unchanged")
 
 
 def test_only_a_change_past_three_figures_counts() -> None:
@@ -131,9 +133,9 @@ def _fixed_diff() -> diff.NetlistDiff:
 
 def test_golden_diff(golden) -> None:
     fixed = _fixed_diff()
-    golden("diff.txt", diff.render_text(fixed))
-    golden("diff.json", diff.render_json(fixed))
-    golden("diff.md", diff.render_markdown(fixed))
+    golden("diff.txt", text_report.render_diff(fixed))
+    golden("diff.json", json_doc.render_diff(fixed))
+    golden("diff.md", markdown.render_diff(fixed))
 
 
 def test_cli_diff(panel_files) -> None:
@@ -144,7 +146,7 @@ def test_cli_diff(panel_files) -> None:
     assert text.returncode == 0, text.stderr
     assert text.stdout.startswith("boards/panel-a.net → boards/panel-b.net\n")
     doc = json.loads(run(panel_files["A"], panel_files["B"], "--format", "json").stdout)
-    assert doc["schema"] == diff.SCHEMA and doc["summary"]["added"] == 2
+    assert doc["schema"] == json_doc.DIFF_SCHEMA and doc["summary"]["added"] == 2
     assert {c["id"]: c["status"] for c in doc["circuits"]}["D2"] == "removed"
     assert run(panel_files["A"], panel_files["B"], "--format", "markdown").stdout.startswith("**ledlint diff**")
     missing = run(panel_files["A"], "boards/nowhere.net")
@@ -159,7 +161,7 @@ def test_the_edits_behind_a_change_are_named(a_to_b) -> None:
     assert [e.text() for e in by["D1"].edits] == [
         "R1 value 47 → 510", "R1 footprint Resistor_SMD:R_0603_1608Metric → Resistor_SMD:R_1210_3225Metric"]
     assert "R3 value 100 → 200" in [e.text() for e in by["D3"].edits]
-    text = diff.render_text(a_to_b)
+    text = text_report.render_diff(a_to_b)
     assert "    edit R1 value 47 → 510" in text
 
 

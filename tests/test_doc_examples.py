@@ -13,8 +13,8 @@ import math
 import pytest
 
 from kicad8 import Board
-from ledlint.findings import Severity
-from ledlint.run import check
+from ledlint.checks.findings import Severity
+from ledlint.review.run import check
 
 MCU = {"1": "+3V3", "2": "/P0", "8": "GND"}
 VT25 = 1.380649e-23 * 298.15 / 1.602176634e-19  # kT/q at 25 °C (CODATA 2018, exact in the 2019 SI)

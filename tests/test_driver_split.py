@@ -12,8 +12,8 @@ from pathlib import Path
 import pytest
 
 from kicad8 import Board
-from ledlint.recognise import CircuitKind
-from ledlint.run import FileResult
+from ledlint.circuits.recognise import CircuitKind
+from ledlint.review.run import FileResult
 from test_drivers import analysis, run
 
 

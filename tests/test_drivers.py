@@ -11,10 +11,10 @@ import pytest
 import board_driver
 from kicad8 import SYMBOLS, Board
 from rulecheck import of_rule, only, run_board, value
-from ledlint.analyse import Analysis
-from ledlint.findings import Severity
-from ledlint.recognise import CircuitKind, LedCircuit
-from ledlint.run import FileResult, check
+from ledlint.analysis.board import Analysis
+from ledlint.checks.findings import Severity
+from ledlint.circuits.recognise import CircuitKind, LedCircuit
+from ledlint.review.run import FileResult, check
 from paths import SAMPLES
 
 # Test-only demo symbols: a plain diode, an inductor, and invented boost, buck and

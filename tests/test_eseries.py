@@ -9,7 +9,7 @@ import pytest
 from hypothesis import assume, given
 from hypothesis import strategies as st
 
-from ledlint.eseries import ESeries, in_series, nearest, nearest_above, nearest_below, series_values
+from ledlint.quantities.eseries import ESeries, in_series, nearest, nearest_above, nearest_below, series_values
 
 _REFERENCE_KEY = {
     ESeries.E3: reference.E3,

@@ -11,7 +11,7 @@ import pytest
 
 from conftest import workshop_panel
 from ledlint.report import github, json_doc, markdown, text
-from ledlint.run import check
+from ledlint.review.run import check
 
 
 @pytest.fixture

@@ -14,7 +14,7 @@ from pathlib import Path
 
 from ledlint.errors import LedlintError
 from ledlint.report import json_doc, sarif, text
-from ledlint.run import check
+from ledlint.review.run import check
 from paths import FIXTURES, SAMPLES
 
 # What a schematic's strings may hold, odd ones foremost: values, units, pin names, rail names.

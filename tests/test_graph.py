@@ -3,8 +3,8 @@
 from __future__ import annotations
 
 from paths import CORPUS, SAMPLES
-from ledlint.graph import NetGraph
-from ledlint.reader import read_netlist
+from ledlint.circuits.graph import NetGraph
+from ledlint.netlist.kicad_net import read_netlist
 
 
 def test_queries_on_the_sample_board() -> None:

@@ -11,27 +11,19 @@ import ledlint.rules
 # Left to right; modules in one group may import each other. Names are ledlint's first-level
 # modules or packages ("engine" covers ledlint.engine.*).
 ORDER = [
-    {"errors", "frozen", "units", "rails", "eseries", "ratings"},
-    {"model"},
-    {"sexpr"},
-    {"reader"},
-    {"config"},
-    {"parts", "ledtypes"},
-    {"params"},
-    {"graph"},
-    {"topology"},
-    {"recognise"},
+    {"__init__", "__version__", "errors", "frozen", "paths"},
+    {"quantities"},
     {"engine"},
-    {"batch", "supplies"},
-    {"drive"},
-    {"analyse"},
-    {"sizing"},
-    {"findings"},
-    {"registry"},
+    {"netlist"},
+    {"config"},
+    {"parts"},
+    {"circuits"},
+    {"analysis"},
+    {"checks"},
     {"rules"},
-    {"run"},
-    {"report", "baseline", "diff"},
-    {"cli", "__main__", "__init__"},
+    {"review"},
+    {"report"},
+    {"cli", "__main__"},
 ]
 
 
@@ -58,18 +50,37 @@ def _modules() -> list[tuple[str, Path]]:
     return out
 
 
+def _imports(name: str, path: Path) -> list[str]:
+    """Every module `name` imports, relative imports resolved against its package."""
+    package = name if path.name == "__init__.py" else name.rpartition(".")[0]
+    out = []
+    for node in ast.walk(ast.parse(path.read_text(encoding="utf-8"))):
+        if isinstance(node, ast.ImportFrom):
+            base = node.module or ""
+            if node.level:
+                parent = package.split(".")[: len(package.split(".")) - node.level + 1]
+                base = ".".join(parent + ([base] if base else []))
+            out += [base] + [f"{base}.{a.name}" for a in node.names]
+        elif isinstance(node, ast.Import):
+            out += [a.name for a in node.names]
+    return out
+
+
 def test_every_module_imports_left_only() -> None:
     modules = _modules()
     assert any(n.startswith("ledlint.rules.") for n, _ in modules)
     for name, path in modules:
         own = _stage(name.removesuffix(".__init__"))
-        for node in ast.walk(ast.parse(path.read_text(encoding="utf-8"))):
-            targets = []
-            if isinstance(node, ast.ImportFrom) and node.module and node.level == 0:
-                targets = [node.module]
-            elif isinstance(node, ast.Import):
-                targets = [a.name for a in node.names]
-            for t in targets:
-                other = _stage(t)
-                if other is not None and own is not None:
-                    assert other <= own, f"{name} imports {t}, which is to its right"
+        for t in _imports(name, path):
+            other = _stage(t) if t.split(".")[0] == "ledlint" and len(t.split(".")) > 1 else None
+            if other is not None and own is not None:
+                assert other <= own, f"{name} imports {t}, which is to its right"
+
+
+def test_relative_imports_are_resolved(tmp_path: Path) -> None:
+    # `from ..engine import x` inside ledlint.analysis.board is an import of ledlint.engine.
+    module = tmp_path / "board.py"
+    module.write_text("from ..engine import corners\nfrom . import sizing\nfrom .supplies import x\n")
+    found = _imports("ledlint.analysis.board", module)
+    assert {"ledlint.engine", "ledlint.analysis", "ledlint.analysis.supplies"} <= set(found)
+    assert _stage("ledlint.engine.corners") < _stage("ledlint.analysis")  # type: ignore[operator]

@@ -6,8 +6,8 @@ import pytest
 
 from ledlint.config import from_mapping
 from ledlint.frozen import FrozenMap
-from ledlint.model import Component, Pin, PinType
-from ledlint.params import Missing, Origin, Param, led_params, pin_limit, rail_params, resistor_params
+from ledlint.netlist.model import Component, Pin, PinType
+from ledlint.parts.params import Missing, Origin, Param, led_params, pin_limit, rail_params, resistor_params
 
 
 def _led(value: str = "LED", footprint: str = "LED_SMD:LED_0603_1608Metric", **fields: str) -> Component:

@@ -6,7 +6,7 @@ import pytest
 from hypothesis import given
 from hypothesis import strategies as st
 
-from ledlint.rails import Rail, RailKind, is_mains_name, is_supply_name, rail_from_net_name
+from ledlint.parts.rails import Rail, RailKind, is_mains_name, is_supply_name, rail_from_net_name
 
 
 def dc_rail(name: str) -> Rail:

@@ -10,8 +10,8 @@ import pytest
 from hypothesis import given
 from hypothesis import strategies as st
 
-from ledlint.ratings import PowerRating, chip_size, derated_power, rating_from_footprint
-from ledlint.reader import read_netlist
+from ledlint.quantities.ratings import PowerRating, chip_size, derated_power, rating_from_footprint
+from ledlint.netlist.kicad_net import read_netlist
 
 
 # Commonly quoted chip defaults at 70 °C: 0201 1/20, 0402 1/16, 0603 1/10, 0805 1/8, 1206 1/4,

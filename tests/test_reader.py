@@ -10,8 +10,8 @@ from hypothesis import strategies as st
 
 from paths import CORPUS, FIXTURES, SAMPLES
 from ledlint.errors import InputError
-from ledlint.model import PinType
-from ledlint.reader import decode, parse_netlist, read_netlist
+from ledlint.netlist.model import PinType
+from ledlint.netlist.kicad_net import decode, parse_netlist, read_netlist
 
 
 def test_kicad5_bare_atoms_libpart_names_and_duplicates() -> None:

@@ -6,10 +6,10 @@ import pytest
 
 from kicad8 import SYMBOLS, Board
 from ledlint.config import Config
-from ledlint.graph import NetGraph
-from ledlint.reader import parse_netlist, read_netlist
-from ledlint.recognise import CircuitKind, LedCircuit, recognise
-from ledlint.topology import ElementKind
+from ledlint.circuits.graph import NetGraph
+from ledlint.netlist.kicad_net import parse_netlist, read_netlist
+from ledlint.circuits.recognise import CircuitKind, LedCircuit, recognise
+from ledlint.circuits.topology import ElementKind
 from paths import CORPUS
 
 # Test-only symbols: an addressable LED with its own controller, and an unnamed-pin NPN.
@@ -154,7 +154,7 @@ def test_addressable_chain_is_one_circuit() -> None:
 
 
 def test_every_corpus_led_is_in_exactly_one_circuit(corpus) -> None:
-    from ledlint.parts import Kind, classify, led_dies
+    from ledlint.parts.kinds import Kind, classify, led_dies
 
     for path in corpus:
         n = read_netlist(path)
@@ -188,7 +188,7 @@ def test_corpus_topologies_match_the_manifest(corpus, name: str, kind: CircuitKi
 
 def test_multiplexed_is_listed_with_its_drivers_rail(tmp_path) -> None:
     """Not analysed, but the report names the rail its driver runs from (the IC's VDD)."""
-    from ledlint.analyse import analyse
+    from ledlint.analysis.board import analyse
 
     b = Board("t", "t")
     b.add("U1", "MCU8", "MCU8", "Package_SO:SOIC-8", MCU)

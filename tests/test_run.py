@@ -12,8 +12,8 @@ import pytest
 
 from kicad8 import Board
 from ledlint.errors import LedlintError
-from ledlint.findings import fingerprint
-from ledlint.run import check
+from ledlint.checks.findings import fingerprint
+from ledlint.review.run import check
 
 
 def _board(tmp_path, waive: str | None = None, name: str = "panel"):

@@ -8,7 +8,7 @@ from board_rgb import rgb_status
 from board_worklight import work_light
 from paths import SAMPLES
 
-from ledlint.run import check, load_rules
+from ledlint.review.run import check, load_rules
 
 ERROR, WARNING, INFO = "error", "warning", "info"
 

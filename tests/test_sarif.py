@@ -11,9 +11,9 @@ import jsonschema
 import pytest
 
 from conftest import workshop_panel
-from ledlint.run import load_rules
+from ledlint.review.run import load_rules
 from ledlint.report import sarif
-from ledlint.run import check
+from ledlint.review.run import check
 from paths import REPO
 
 SCHEMA_PATH = REPO.parent / "shared" / "reference" / "sarif-schema-2.1.0.json"

@@ -7,7 +7,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from ledlint.errors import InputError
-from ledlint.sexpr import MAX_DEPTH, parse, unescape
+from ledlint.netlist.sexpr import MAX_DEPTH, parse, unescape
 
 
 # sexpdata's defaults would turn each of these into something else (nil -> [], t -> True,

@@ -10,8 +10,8 @@ import pytest
 from hypothesis import given
 from hypothesis import strategies as st
 
-from ledlint.reader import read_netlist
-from ledlint.units import (
+from ledlint.netlist.kicad_net import read_netlist
+from ledlint.quantities.units import (
     Quantity,
     Unknown,
     parse_current,

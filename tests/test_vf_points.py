@@ -11,8 +11,8 @@ from rulecheck import K_OVER_Q, ZERO_CELSIUS, of_rule, run_board
 
 from ledlint.config import from_mapping
 from ledlint.frozen import FrozenMap
-from ledlint.model import Component
-from ledlint.params import Missing, led_params
+from ledlint.netlist.model import Component
+from ledlint.parts.params import Missing, led_params
 
 # An invented diode (demo data): Is, n and Rs, and the ambient the points are read at.
 IS, N, RS = 1e-19, 2.0, 8.0

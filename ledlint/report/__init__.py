@@ -1,4 +1,5 @@
-"""Output formats: one module per format, each consuming findings and rule metadata."""
+"""Output formats: one module per format, each consuming findings, rule metadata and circuit summaries;
+the wording they share."""
 
 from __future__ import annotations
 
@@ -12,3 +13,14 @@ _CONTROL = re.compile(r"[\x00-\x08\x0b-\x1f\x7f-\x9f]")
 def printable(text: str) -> str:
     """Text with control characters shown as U+FFFD."""
     return _CONTROL.sub("\ufffd", text)
+
+
+SAFETY = ("Mains and high-voltage LED circuits can kill. These findings are a review aid, not a safety "
+          "assessment: follow the applicable safety standards and local codes, and have the design "
+          "reviewed by a qualified person.")
+_MAX_REFS = 8
+
+
+def refs_text(refs: tuple[str, ...]) -> str:
+    """Part references as a report lists them: the first eight, then how many in all."""
+    return ", ".join(refs[:_MAX_REFS]) + (f" … ({len(refs)} parts)" if len(refs) > _MAX_REFS else "")

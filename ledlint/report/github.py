@@ -2,11 +2,12 @@
 
 from __future__ import annotations
 
-from ledlint.findings import Finding, Severity
+from ledlint.checks.findings import Finding, Severity
 from ledlint.report import printable
-from ledlint.report.markdown import posix_path, summary, unused_waiver
-from ledlint.report.text import SAFETY
-from ledlint.run import RunResult
+from ledlint.paths import posix_path
+from ledlint.report.markdown import summary, unused_waiver
+from ledlint.report import SAFETY
+from ledlint.review.run import RunResult
 
 COMMANDS = {Severity.ERROR: "error", Severity.WARNING: "warning", Severity.INFO: "notice"}
 _MAX_REFS = 6  # in an annotation title; the message names the rest

@@ -6,12 +6,14 @@ import json
 from typing import Any
 
 from ledlint import __version__
-from ledlint.findings import Finding
-from ledlint.parts import led_parts
-from ledlint.report.circuits import rows
-from ledlint.run import RunResult
+from ledlint.checks.findings import Finding
+from ledlint.parts.kinds import led_parts
+from ledlint.analysis.summary import row
+from ledlint.review.diff import NetlistDiff, Reading
+from ledlint.review.run import RunResult
 
 SCHEMA = 1
+DIFF_SCHEMA = 1
 
 
 def finding_json(f: Finding) -> dict[str, Any]:
@@ -50,9 +52,39 @@ def document(result: RunResult) -> dict[str, Any]:
         "unused_waivers": [{"rule": w.rule, "ref": w.ref or None, "fingerprint": w.fingerprint or None,
                             "reason": w.reason, "origin": w.origin} for w in result.unused_waivers],
         "unused_settings": list(result.unused_settings),
-        "circuits": [c.as_json() for c in rows(result)],
+        "circuits": [row(r.path, a).as_json() for r in result.files for a in r.board.analyses],
     }
 
 
 def render(result: RunResult) -> str:
     return json.dumps(document(result), indent=2, ensure_ascii=False) + "\n"
+
+
+def _reading_json(r: Reading | None) -> dict[str, float | None] | None:
+    return None if r is None else {"value": r.value, "min": r.low, "max": r.high}
+
+
+def diff_document(d: NetlistDiff) -> dict[str, Any]:
+    return {
+        "schema": DIFF_SCHEMA,
+        "tool": {"name": "ledlint", "version": __version__},
+        "old": d.old_path,
+        "new": d.new_path,
+        "summary": d.counts(),
+        "circuits": [{
+            "status": c.status.value, "id": c.id, "old_id": c.old.id if c.old else None,
+            "new_id": c.new.id if c.new else None, "kind": c.kind, "leds": list(c.leds),
+            "leds_added": list(c.leds_added), "leds_removed": list(c.leds_removed), "elsewhere": list(c.elsewhere),
+            "edits": [{"ref": e.ref, "what": e.what, "old": e.old, "new": e.new} for e in c.edits],
+            "moved": [{"quantity": m.quantity.value, "subject": m.subject, "unit": m.unit,
+                       "old": _reading_json(m.old), "new": _reading_json(m.new)} for m in c.moved],
+            "findings_appeared": [finding_json(f) for f in c.appeared],
+            "findings_gone": [finding_json(f) for f in c.gone],
+        } for c in d.circuits],
+        "findings_appeared": [finding_json(f) for f in d.appeared],
+        "findings_gone": [finding_json(f) for f in d.gone],
+    }
+
+
+def render_diff(d: NetlistDiff) -> str:
+    return json.dumps(diff_document(d), indent=2, ensure_ascii=False) + "\n"

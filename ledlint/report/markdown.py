@@ -2,27 +2,14 @@
 
 from __future__ import annotations
 
-import os
-from pathlib import Path
-
 from ledlint.config import Waiver
-from ledlint.findings import Finding
-from ledlint.report import printable
-from ledlint.report.text import SAFETY
-from ledlint.run import RunResult
+from ledlint.paths import posix_path
+from ledlint.checks.findings import Finding
+from ledlint.report import SAFETY, printable, refs_text
+from ledlint.review.diff import NetlistDiff, Status, shown
+from ledlint.review.run import RunResult
 
 MAX_ROWS = 100  # a comment stays readable (and under the size a code host accepts); the rest is counted
-_MAX_REFS = 8
-
-
-def posix_path(path: str | Path, start: str | Path | None = None) -> str:
-    """`path` relative to `start` (default: the working folder) with forward slashes; absolute
-    when it cannot be made relative (another drive)."""
-    target = Path(path).resolve()
-    try:
-        return Path(os.path.relpath(target, Path(start or os.getcwd()).resolve())).as_posix()
-    except ValueError:
-        return target.as_posix()
 
 
 def unused_waiver(w: Waiver) -> str:
@@ -43,10 +30,6 @@ def summary(result: RunResult) -> str:
 def cell(text: str) -> str:
     """Text safe inside a table cell: one line, pipes escaped, no stray HTML."""
     return printable(" ".join(text.split())).replace("\\", "\\\\").replace("|", "\\|").replace("<", "&lt;")
-
-
-def refs_text(refs: tuple[str, ...]) -> str:
-    return ", ".join(refs[:_MAX_REFS]) + (f" … ({len(refs)} parts)" if len(refs) > _MAX_REFS else "")
 
 
 def _row(f: Finding) -> str:
@@ -75,4 +58,30 @@ def render(result: RunResult) -> str:
         notes += [f"- reader note `{cell(posix_path(fr.path))}:{n.line}`: {cell(n.message)}" for n in fr.netlist.notes]
     if notes:
         out += ["", *notes]
+    return "\n".join(out) + "\n"
+
+
+def render_diff(d: NetlistDiff) -> str:
+    """A netlist diff as tables for a pull-request comment."""
+    out = [f"**ledlint diff** `{cell(posix_path(d.old_path))}` → `{cell(posix_path(d.new_path))}` · {d.summary()}",
+           ""]
+    rows = []
+    for c in d.circuits:
+        if c.status is Status.UNCHANGED:
+            continue
+        rows.append(f"| {c.id} | {cell(c.describe())} | {cell(c.kind)} | | |")
+        rows += [f"| {c.id} | edit {cell(e.ref)} {cell(e.what)} | | {cell(shown(e.old))} | {cell(shown(e.new))} |"
+                 for e in c.edits if e.what != "part"]
+        rows += [f"| {c.id} | {cell(e.text())} | | | |" for e in c.edits if e.what == "part"]
+        rows += [f"| {c.id} | {cell(m.label)} | | {m.side(m.old)} | {m.side(m.new)} |" for m in c.moved]
+    if rows:
+        out += table(("circuit", "change", "kind", "was", "now"), rows)
+    findings = [("appeared", f) for c in d.circuits for f in c.appeared] + [("appeared", f) for f in d.appeared]
+    findings += [("went away", f) for c in d.circuits for f in c.gone] + [("went away", f) for f in d.gone]
+    if findings:
+        out += ["", *table(("finding", "severity", "rule", "parts", "message"),
+                           [f"| {what} | {f.severity.value} | `{f.rule}` | {cell(refs_text(f.refs))} | "
+                            f"{cell(f.message)} |" for what, f in findings])]
+    if not rows and not findings:
+        out.append("No electrical change.")
     return "\n".join(out) + "\n"

@@ -9,13 +9,14 @@ from typing import Any
 from urllib.parse import quote
 
 from ledlint import __version__
-from ledlint.findings import Finding, Severity
-from ledlint.model import Netlist
-from ledlint.registry import DOC_SECTIONS, Rule, rule_doc
+from ledlint.checks.findings import Finding, Severity
+from ledlint.netlist.model import Netlist
+from ledlint.checks.registry import DOC_SECTIONS, Rule, rule_doc
 from ledlint.report.json_doc import finding_json
-from ledlint.report.markdown import posix_path, unused_waiver
-from ledlint.report.text import SAFETY
-from ledlint.run import FileResult, RunResult, field_waivers
+from ledlint.paths import posix_path
+from ledlint.report.markdown import unused_waiver
+from ledlint.report import SAFETY
+from ledlint.review.run import FileResult, RunResult, field_waivers
 
 SARIF_VERSION = "2.1.0"
 SARIF_SCHEMA = "https://docs.oasis-open.org/sarif/sarif/v2.1.0/errata01/os/schemas/sarif-schema-2.1.0.json"

@@ -9,22 +9,20 @@ from rich.console import Console
 from rich.markup import escape
 from rich.table import Table
 
-from ledlint.findings import Finding, Severity, quantity
-from ledlint.parts import led_parts
-from ledlint.report import printable
-from ledlint.recognise import CircuitKind
-from ledlint.report.circuits import CircuitRow, row
-from ledlint.run import FileResult, RunResult
+from ledlint.checks.findings import Finding, Severity, quantity
+from ledlint.parts.kinds import led_parts
+from ledlint.report import SAFETY, printable, refs_text
+from ledlint.circuits.recognise import CircuitKind
+from ledlint.analysis.summary import CircuitRow, row
+from ledlint.paths import posix_path
+from ledlint.review.diff import NetlistDiff, Status
+from ledlint.review.run import FileResult, RunResult
 
 # Short names for the circuit table; the JSON and SARIF use the kinds' full names.
 _SHORT = {"series-string": "string", "shared-resistor-bank": "bank", "current-sink": "sink",
           "constant-current-driver": "driver", "addressable": "addressable", "multiplexed": "multiplexed",
           "not-fitted": "not fitted", "unrecognised": "unrecognised"}
 _STYLE = {Severity.ERROR: "bold red", Severity.WARNING: "bold yellow", Severity.INFO: "cyan"}
-SAFETY = ("Mains and high-voltage LED circuits can kill. These findings are a review aid, not a safety "
-          "assessment: follow the applicable safety standards and local codes, and have the design "
-          "reviewed by a qualified person.")
-
 
 _INDENT = 8
 
@@ -41,7 +39,7 @@ def _wrapped(label: str, body: str, width: int, style: str = "") -> list[str]:
 
 def _finding(f: Finding, width: int) -> list[str]:
     where = f"line {f.line}" if f.line else ""
-    refs = ", ".join(f.refs[:8]) + (f" … ({len(f.refs)} parts)" if len(f.refs) > 8 else "")
+    refs = refs_text(f.refs)
     head = " · ".join(x for x in (f.rule, where, refs, ("nets " + ", ".join(f.nets)) if f.nets else "") if x)
     lines = _wrapped(f.severity.value.upper(), head, width, _STYLE[f.severity])
     lines += _wrapped("", f.message, width)
@@ -149,3 +147,28 @@ def render(result: RunResult, *, circuits: bool = False, color: bool = False, wi
     console.print(f"{len(result.files)} file(s) · {total} circuit(s), {analysed} analysed · "
                   f"{counts['error']} error(s) · {counts['warning']} warning(s) · {counts['info']} info")
     return "".join(line.rstrip() + "\n" for line in buf.getvalue().splitlines())  # no padding at line ends
+
+
+_MARK = {Status.ADDED: "+", Status.REMOVED: "-", Status.CHANGED: "~"}
+
+
+def _finding_line(sign: str, f: Finding) -> str:
+    return f"{sign} {f.severity.value} {f.rule} ({refs_text(f.refs)}): {f.message}"
+
+
+def render_diff(d: NetlistDiff) -> str:
+    """A netlist diff, circuit by circuit: the edits, the figures that moved, the findings."""
+    out = [f"{posix_path(d.old_path)} → {posix_path(d.new_path)}"]
+    for c in d.circuits:
+        if c.status is Status.UNCHANGED:
+            continue
+        out.append(f"{_MARK[c.status]} {c.id}  {c.kind}  ({', '.join(c.leds)}) {c.describe()}")
+        out += [f"    edit {e.text()}" for e in c.edits]
+        width = max((len(m.label) for m in c.moved), default=0)
+        out += [f"    {m.label:{width}}  {m.side(m.old)} → {m.side(m.new)}" for m in c.moved]
+        out += [f"    {_finding_line('+', f)}" for f in c.appeared] + [f"    {_finding_line('-', f)}" for f in c.gone]
+    if d.appeared or d.gone:
+        out.append("board")
+        out += [f"    {_finding_line('+', f)}" for f in d.appeared] + [f"    {_finding_line('-', f)}" for f in d.gone]
+    out.append(d.summary())
+    return "\n".join(out) + "\n"

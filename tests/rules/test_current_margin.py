@@ -8,7 +8,7 @@ import pytest
 from kicad8 import Board
 from rulecheck import current_bounds, line_of, of_rule, only, run_board, value
 
-from ledlint.findings import Severity
+from ledlint.checks.findings import Severity
 
 R1206 = "Resistor_SMD:R_1206_3216Metric"  # 0.25 W: the ballast's dissipation stays out of the way
 

@@ -7,7 +7,7 @@ from pathlib import Path
 from kicad8 import Board
 from rulecheck import of_rule, run_board, value
 
-from ledlint.findings import Severity
+from ledlint.checks.findings import Severity
 
 POWER_LED = "LED_SMD:LED_1W_3535"  # a 1 W class emitter, not an indicator package
 AMBIENT = "[ambient]\nmin = 25\nmax = 25\n"

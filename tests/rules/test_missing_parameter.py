@@ -12,7 +12,7 @@ import pytest
 from kicad8 import Board
 from rulecheck import of_rule, only, run_board
 
-from ledlint.findings import Severity
+from ledlint.checks.findings import Severity
 
 
 def indicator(value: str, rail: str = "+5V", **fields: str) -> Board:

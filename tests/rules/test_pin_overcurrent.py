@@ -11,7 +11,7 @@ import pytest
 from kicad8 import Board
 from rulecheck import current_bounds, line_of, of_rule, only, run_board, value
 
-from ledlint.findings import Severity
+from ledlint.checks.findings import Severity
 
 SOIC8 = "Package_SO:SOIC-8_3.9x4.9mm_P1.27mm"
 # A GPIO pin modelled as its supply behind 40-65 Ω, the usual first-order output model (common

@@ -8,7 +8,7 @@ import pytest
 from kicad8 import Board
 from rulecheck import current_bounds, line_of, of_rule, only, run_board, value
 
-from ledlint.findings import Severity
+from ledlint.checks.findings import Severity
 
 # Red 5 mm lamp, If_max 50 mA (high-brightness T-1¾ class, field-facts §5b), on +5V through
 # 150 Ω: 20 mA nominal. Worst corner: 5.25 V (+5 %), 142.5 Ω (−5 %), Vf_min = 1.8 V (−10 %).

@@ -8,7 +8,7 @@ import pytest
 from kicad8 import Board
 from rulecheck import current_bounds, line_of, of_rule, only, run_board, value
 
-from ledlint.findings import Severity
+from ledlint.checks.findings import Severity
 
 # +12V at its +5 % end (rail named by voltage, ±5 % default). A reversed LED passes only
 # leakage, so its resistor drops next to nothing and the LED takes the whole rail.

@@ -10,8 +10,8 @@ import tempfile
 import pytest
 
 from ledlint.cli import main
-from ledlint.registry import DOC_SECTIONS
-from ledlint.run import load_rules
+from ledlint.checks.registry import DOC_SECTIONS
+from ledlint.review.run import load_rules
 
 RULES = {r.id: r for r in load_rules(include_plugins=False)}
 

@@ -7,11 +7,11 @@ import re
 from pathlib import Path
 
 import pytest
-from ledlint.eseries import ESeries, nearest_below
+from ledlint.quantities.eseries import ESeries, nearest_below
 from kicad8 import Board
 from rulecheck import N_MAX, RS_MAX, line_of, of_rule, only, run_board, thermal_voltage, value
 
-from ledlint.findings import Severity
+from ledlint.checks.findings import Severity
 
 R1206 = "Resistor_SMD:R_1206_3216Metric"
 I_TEST = 0.010

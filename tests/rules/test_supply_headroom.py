@@ -8,7 +8,7 @@ import pytest
 from kicad8 import Board
 from rulecheck import line_of, of_rule, only, rd_max, run_board, value
 
-from ledlint.findings import Severity
+from ledlint.checks.findings import Severity
 
 # A 3.3 V rail that sags to 2.9 V (a regulator near dropout), stated in the configuration.
 SAGGING = "[ambient]\nmin = 25\nmax = 25\n\n[rails.\"+3V3\"]\nnominal = 3.3\nmin = 2.9\nmax = 3.6\n"

@@ -8,7 +8,7 @@ import pytest
 from kicad8 import Board
 from rulecheck import line_of, of_rule, only, run_board, value
 
-from ledlint.findings import Severity
+from ledlint.checks.findings import Severity
 
 SOT23 = "Package_TO_SOT_SMD:SOT-23"
 SOIC8 = "Package_SO:SOIC-8_3.9x4.9mm_P1.27mm"

@@ -8,7 +8,7 @@ import pytest
 from kicad8 import Board
 from rulecheck import line_of, of_rule, only, run_board
 
-from ledlint.findings import Severity
+from ledlint.checks.findings import Severity
 
 SOT23 = "Package_TO_SOT_SMD:SOT-23"
 MCU = {"1": "+3V3", "2": "/LED_ON", "8": "GND"}

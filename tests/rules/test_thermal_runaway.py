@@ -9,7 +9,7 @@ import pytest
 from kicad8 import Board
 from rulecheck import K_OVER_Q, ZERO_CELSIUS, line_of, of_rule, run_board, thermal_voltage, value
 
-from ledlint.findings import Severity
+from ledlint.checks.findings import Severity
 
 POWER_LED = "LED_SMD:LED_1W_3535"  # a 1 W class emitter on a plain board, not an indicator package
 RTH = 130.0  # K/W junction to ambient as mounted (the part's Rth field)

@@ -7,7 +7,7 @@ from pathlib import Path
 from kicad8 import Board
 from rulecheck import N_MAX, RS_MAX, current_bounds, line_of, of_rule, only, run_board, shockley_current, value
 
-from ledlint.findings import Severity
+from ledlint.checks.findings import Severity
 
 # Red indicator, 2.0 V at 20 mA, If_max 25 mA, no self-heating, +3V3 at most 3.465 V (+5 %).
 RED = {"Vf": "2.0V@20mA", "If_max": "25mA", "Rth": "0"}

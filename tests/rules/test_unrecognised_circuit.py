@@ -7,7 +7,7 @@ from pathlib import Path
 from kicad8 import Board
 from rulecheck import line_of, of_rule, only, run_board
 
-from ledlint.findings import Severity
+from ledlint.checks.findings import Severity
 
 HEADER2 = "Connector_PinHeader_2.54mm:PinHeader_1x02_P2.54mm_Vertical"
 

@@ -11,14 +11,14 @@ from dataclasses import dataclass
 
 from ledlint.config import DRIVER_KINDS, Config
 from ledlint.engine import Range
-from ledlint.graph import NetGraph
-from ledlint.model import Pin
-from ledlint.params import Missing, Origin, Param, rail_params, resistor_params
-from ledlint.parts import Kind, classify, transistor_pins
-from ledlint.recognise import DriverIC, LedCircuit, Reference, ReferenceKind, Sink
-from ledlint.supplies import PIN_OUTPUT, ic_supply
-from ledlint.topology import ElementKind, drive_pin
-from ledlint.units import parse_current, parse_tolerance, parse_voltage, quantity
+from ledlint.circuits.graph import NetGraph
+from ledlint.netlist.model import Pin
+from ledlint.parts.params import Missing, Origin, Param, rail_params, resistor_params
+from ledlint.parts.kinds import Kind, classify, transistor_pins
+from ledlint.circuits.recognise import DriverIC, LedCircuit, Reference, ReferenceKind, Sink
+from ledlint.analysis.supplies import PIN_OUTPUT, ic_supply
+from ledlint.circuits.topology import ElementKind, drive_pin
+from ledlint.quantities.units import parse_current, parse_tolerance, parse_voltage, quantity
 
 # Silicon base-emitter voltage at 1-100 mA: 0.65 V nominal, 0.55-0.75 V over parts and current,
 # falling 2 mV/K (common practice).

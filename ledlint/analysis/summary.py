@@ -4,10 +4,9 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from ledlint.analyse import Analysis, ResistorRole
-from ledlint.recognise import CircuitKind
-from ledlint.run import RunResult
-from ledlint.topology import ElementKind
+from ledlint.analysis.board import Analysis, ResistorRole
+from ledlint.circuits.recognise import CircuitKind
+from ledlint.circuits.topology import ElementKind
 
 _NOT_ANALYSED = {
     CircuitKind.ADDRESSABLE: "not analysed electrically: each LED sets its own current",
@@ -70,6 +69,3 @@ def row(path: str, a: Analysis) -> CircuitRow:
                       c.ret.net if c.ret else ends, rail, current, power, headroom, a.solved,
                       note)
 
-
-def rows(result: RunResult) -> list[CircuitRow]:
-    return [row(f.path, a) for f in result.files for a in f.board.analyses]

@@ -12,15 +12,15 @@ from functools import lru_cache
 
 import numpy as np
 
-from ledlint.analyse import Analysis
+from ledlint.analysis.board import Analysis
 from ledlint.engine import Circuit, Range, corners, monte_carlo
 from ledlint.engine.corners import ballast_scan
-from ledlint.drive import VBE, SwitchDrive
-from ledlint.eseries import ESeries, nearest_above, nearest_below, series_values
-from ledlint.ratings import chip_for, derated_power
-from ledlint.recognise import CircuitKind
-from ledlint.supplies import PIN_OUTPUT
-from ledlint.units import quantity
+from ledlint.analysis.drive import VBE, SwitchDrive
+from ledlint.quantities.eseries import ESeries, nearest_above, nearest_below, series_values
+from ledlint.quantities.ratings import chip_for, derated_power
+from ledlint.circuits.recognise import CircuitKind
+from ledlint.analysis.supplies import PIN_OUTPUT
+from ledlint.quantities.units import quantity
 
 
 

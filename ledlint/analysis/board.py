@@ -18,19 +18,19 @@ from typing import Mapping
 import numpy as np
 
 from ledlint.config import Config
-from ledlint.drive import NO_SENSE, VCE_SAT, SwitchDrive, SetCurrent, switch_drives, driver_current, sink_current
+from ledlint.analysis.drive import NO_SENSE, VCE_SAT, SwitchDrive, SetCurrent, switch_drives, driver_current, sink_current
 from ledlint.engine import Branch as EBranch
 from ledlint.engine import Circuit as ECircuit
-from ledlint.batch import Job, solve_all
+from ledlint.analysis.batch import Job, solve_all
 from ledlint.engine import Corners, LedSpec, ModelError, Range, Solution, fit_points, forward_voltage, monte_carlo
-from ledlint.graph import NetGraph
-from ledlint.model import Component, Netlist, Pin
-from ledlint.params import (LedParams, known, Missing, Param, ResistorParams, led_params, pin_limit,
+from ledlint.circuits.graph import NetGraph
+from ledlint.netlist.model import Component, Netlist, Pin
+from ledlint.parts.params import (LedParams, known, Missing, Param, ResistorParams, led_params, pin_limit,
                             rail_params, resistor_params)
-from ledlint.parts import Kind
-from ledlint.recognise import CircuitKind, LedCircuit, ReferenceKind, recognise
-from ledlint.supplies import SQRT2, Supply, cautions, circuit_supply, end_voltage, ic_supply, rail_of
-from ledlint.topology import Element, ElementKind, Terminal, TerminalKind
+from ledlint.parts.kinds import Kind
+from ledlint.circuits.recognise import CircuitKind, LedCircuit, ReferenceKind, recognise
+from ledlint.analysis.supplies import SQRT2, Supply, cautions, circuit_supply, end_voltage, ic_supply, rail_of
+from ledlint.circuits.topology import Element, ElementKind, Terminal, TerminalKind
 
 # Switch drops: a saturated BJT (VCE_SAT) and a small-signal MOSFET's on-resistance,
 # ≤ 7.5 Ω at V_GS = 5 V (field-facts §9, 2N7002); a silicon diode in series at a few mA.

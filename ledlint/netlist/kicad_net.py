@@ -8,8 +8,8 @@ from pathlib import Path
 from ledlint.frozen import FrozenMap
 
 from ledlint.errors import InputError, byte_position, failure_reason
-from ledlint.model import Component, Net, Netlist, Note, Pin, PinType, Sheet
-from ledlint.sexpr import Locator, SList, parse
+from ledlint.netlist.model import Component, Net, Netlist, Note, Pin, PinType, Sheet
+from ledlint.netlist.sexpr import Locator, SList, parse
 
 # Properties KiCad writes for its own purposes, as opposed to the user's fields
 # (kicad-netlist-format.md §1.4 and §5).

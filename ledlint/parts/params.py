@@ -12,13 +12,13 @@ from enum import Enum
 from typing import Callable
 
 from ledlint.config import Config, plausible
-from ledlint.ledtypes import (AMBIGUOUS_GREEN, INDICATOR_IF_MAX, INDICATOR_RTH, SPREAD, TECHNOLOGIES, TEST_CURRENT,
+from ledlint.parts.leds import (AMBIGUOUS_GREEN, INDICATOR_IF_MAX, INDICATOR_RTH, SPREAD, TECHNOLOGIES, TEST_CURRENT,
                               VR_MAX, Technology, colour_from_text, die_colour, is_indicator_footprint,
                               series_resistance)
-from ledlint.model import Component
-from ledlint.rails import RailKind, rail_from_net_name
-from ledlint.ratings import rating_from_footprint
-from ledlint.units import (Quantity, Unknown, parse_current, parse_power, parse_resistance, parse_temperature, quantity,
+from ledlint.netlist.model import Component
+from ledlint.parts.rails import RailKind, rail_from_net_name
+from ledlint.quantities.ratings import rating_from_footprint
+from ledlint.quantities.units import (Quantity, Unknown, parse_current, parse_power, parse_resistance, parse_temperature, quantity,
                            parse_thermal_resistance, parse_tolerance, parse_vf, parse_voltage)
 
 

@@ -10,7 +10,7 @@ from typing import Iterator
 
 import networkx as nx
 
-from ledlint.model import Component, Net, Netlist, Pin
+from ledlint.netlist.model import Component, Net, Netlist, Pin
 
 
 def net_node(name: str) -> tuple[str, str]:

@@ -2,7 +2,7 @@
 
 A rule is data: an id (kebab-case), a summary, a default severity, options with defaults and
 units, the check function, and its documentation (its module's docstring). Loading the
-built-in rules and plugins happens in ledlint.run, to the right of the rules themselves.
+built-in rules and plugins happens in ledlint.review.run, to the right of the rules themselves.
 """
 
 from __future__ import annotations
@@ -12,10 +12,10 @@ from dataclasses import dataclass, field, replace
 from ledlint.frozen import FrozenMap
 from typing import Any, Callable, Iterator, Mapping
 
-from ledlint.analyse import Analysis, BoardAnalysis
+from ledlint.analysis.board import Analysis, BoardAnalysis
 from ledlint.config import SEVERITIES, Config, suggest
 from ledlint.errors import ConfigError, LedlintError
-from ledlint.findings import Finding, Severity, Value, render
+from ledlint.checks.findings import Finding, Severity, Value, render
 
 _ID = re.compile(r"^[a-z][a-z0-9]*(-[a-z0-9]+)*$")
 DOC_SECTIONS = ("What it flags", "Why it matters", "Example", "Fix", "Formula", "Source")

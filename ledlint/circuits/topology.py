@@ -15,11 +15,11 @@ from typing import Iterable
 from enum import Enum
 
 from ledlint.config import Config
-from ledlint.graph import NetGraph
-from ledlint.model import Component, Pin, PinType
-from ledlint.params import rail_params
-from ledlint.parts import Kind, classify, led_dies, transistor_pins
-from ledlint.rails import is_supply_name
+from ledlint.circuits.graph import NetGraph
+from ledlint.netlist.model import Component, Pin, PinType
+from ledlint.parts.params import rail_params
+from ledlint.parts.kinds import Kind, classify, led_dies, transistor_pins
+from ledlint.parts.rails import is_supply_name
 
 
 class ElementKind(Enum):

@@ -2,25 +2,18 @@
 
 from __future__ import annotations
 
-import json
 from collections import Counter
 from dataclasses import dataclass
 from enum import Enum
 from pathlib import Path
-from collections.abc import Callable, Iterable
-from typing import Any
+from collections.abc import Iterable
 
-from ledlint import __version__
-from ledlint.analyse import Analysis
-from ledlint.findings import Finding
-from ledlint.model import Component
-from ledlint.recognise import LedCircuit
-from ledlint.report.json_doc import finding_json
-from ledlint.report.markdown import cell, posix_path, refs_text, table
-from ledlint.run import FileResult, check
-from ledlint.units import quantity
-
-SCHEMA = 1
+from ledlint.analysis.board import Analysis
+from ledlint.checks.findings import Finding
+from ledlint.netlist.model import Component
+from ledlint.circuits.recognise import LedCircuit
+from ledlint.review.run import FileResult, check
+from ledlint.quantities.units import quantity
 
 
 class Status(Enum):
@@ -96,10 +89,11 @@ class Edit:
     def text(self) -> str:
         if self.what == "part":
             return f"{self.ref} {'added' if self.old is None else 'removed'}"
-        return f"{self.ref} {self.what} {_shown(self.old)} → {_shown(self.new)}"
+        return f"{self.ref} {self.what} {shown(self.old)} → {shown(self.new)}"
 
 
-def _shown(text: str | None) -> str:
+def shown(text: str | None) -> str:
+    """A field's text as a change shows it: — for none, quoted when blank or padded."""
     return "—" if text is None else repr(text) if not text or text != text.strip() else text
 
 
@@ -148,6 +142,20 @@ class CircuitDiff:
     def kind(self) -> str:
         old, new = (c.kind.value if c else "" for c in (self.old, self.new))
         return f"{old} → {new}" if old and new and old != new else new or old
+
+    @property
+    def leds(self) -> tuple[str, ...]:
+        """The LED parts of the circuit, on the newer side when there is one."""
+        return _leds(self.new or self.old)
+
+    def describe(self) -> str:
+        """The status with how the LEDs moved between circuits."""
+        parts = [f"LEDs added {', '.join(self.leds_added)}"] if self.leds_added else []
+        parts += [f"LEDs removed {', '.join(self.leds_removed)}"] if self.leds_removed else []
+        if self.elsewhere:
+            parts.append(("its LEDs were in " if self.status is Status.ADDED else "its LEDs are now in ")
+                         + ", ".join(self.elsewhere))
+        return self.status.value + "".join(f", {p}" for p in parts)
 
     @property
     def leds_added(self) -> tuple[str, ...]:
@@ -302,97 +310,3 @@ def diff_files(old: str | Path, new: str | Path, *, config_path: str | None = No
     """Check both netlists (each with its own configuration, unless one is given) and compare them."""
     before, after = check([old], config_path=config_path), check([new], config_path=config_path)
     return compare(before.files[0], after.files[0])
-
-
-_MARK = {Status.ADDED: "+", Status.REMOVED: "-", Status.CHANGED: "~"}
-
-
-def _finding_line(sign: str, f: Finding) -> str:
-    return f"{sign} {f.severity.value} {f.rule} ({refs_text(f.refs)}): {f.message}"
-
-
-def _status(c: CircuitDiff) -> str:
-    """The status with how the LEDs moved between circuits."""
-    parts = [f"LEDs added {', '.join(c.leds_added)}"] if c.leds_added else []
-    parts += [f"LEDs removed {', '.join(c.leds_removed)}"] if c.leds_removed else []
-    if c.elsewhere:
-        parts.append(("its LEDs were in " if c.status is Status.ADDED else "its LEDs are now in ")
-                     + ", ".join(c.elsewhere))
-    return c.status.value + "".join(f", {p}" for p in parts)
-
-
-def render_text(d: NetlistDiff) -> str:
-    out = [f"{posix_path(d.old_path)} → {posix_path(d.new_path)}"]
-    for c in d.circuits:
-        if c.status is Status.UNCHANGED:
-            continue
-        out.append(f"{_MARK[c.status]} {c.id}  {c.kind}  ({', '.join(_leds(c.new or c.old))}) {_status(c)}")
-        out += [f"    edit {e.text()}" for e in c.edits]
-        width = max((len(m.label) for m in c.moved), default=0)
-        out += [f"    {m.label:{width}}  {m.side(m.old)} → {m.side(m.new)}" for m in c.moved]
-        out += [f"    {_finding_line('+', f)}" for f in c.appeared] + [f"    {_finding_line('-', f)}" for f in c.gone]
-    if d.appeared or d.gone:
-        out.append("board")
-        out += [f"    {_finding_line('+', f)}" for f in d.appeared] + [f"    {_finding_line('-', f)}" for f in d.gone]
-    out.append(d.summary())
-    return "\n".join(out) + "\n"
-
-
-def _reading_json(r: Reading | None) -> dict[str, float | None] | None:
-    return None if r is None else {"value": r.value, "min": r.low, "max": r.high}
-
-
-def document(d: NetlistDiff) -> dict[str, Any]:
-    return {
-        "schema": SCHEMA,
-        "tool": {"name": "ledlint", "version": __version__},
-        "old": d.old_path,
-        "new": d.new_path,
-        "summary": d.counts(),
-        "circuits": [{
-            "status": c.status.value, "id": c.id, "old_id": c.old.id if c.old else None,
-            "new_id": c.new.id if c.new else None, "kind": c.kind, "leds": list(_leds(c.new or c.old)),
-            "leds_added": list(c.leds_added), "leds_removed": list(c.leds_removed), "elsewhere": list(c.elsewhere),
-            "edits": [{"ref": e.ref, "what": e.what, "old": e.old, "new": e.new} for e in c.edits],
-            "moved": [{"quantity": m.quantity.value, "subject": m.subject, "unit": m.unit,
-                       "old": _reading_json(m.old), "new": _reading_json(m.new)} for m in c.moved],
-            "findings_appeared": [finding_json(f) for f in c.appeared],
-            "findings_gone": [finding_json(f) for f in c.gone],
-        } for c in d.circuits],
-        "findings_appeared": [finding_json(f) for f in d.appeared],
-        "findings_gone": [finding_json(f) for f in d.gone],
-    }
-
-
-def render_json(d: NetlistDiff) -> str:
-    return json.dumps(document(d), indent=2, ensure_ascii=False) + "\n"
-
-
-def render_markdown(d: NetlistDiff) -> str:
-    out = [f"**ledlint diff** `{cell(posix_path(d.old_path))}` → `{cell(posix_path(d.new_path))}` · {d.summary()}",
-           ""]
-    rows = []
-    for c in d.circuits:
-        if c.status is Status.UNCHANGED:
-            continue
-        rows.append(f"| {c.id} | {cell(_status(c))} | {cell(c.kind)} | | |")
-        rows += [f"| {c.id} | edit {cell(e.ref)} {cell(e.what)} | | {cell(_shown(e.old))} | {cell(_shown(e.new))} |"
-                 for e in c.edits if e.what != "part"]
-        rows += [f"| {c.id} | {cell(e.text())} | | | |" for e in c.edits if e.what == "part"]
-        rows += [f"| {c.id} | {cell(m.label)} | | {m.side(m.old)} | {m.side(m.new)} |" for m in c.moved]
-    if rows:
-        out += table(("circuit", "change", "kind", "was", "now"), rows)
-    findings = [("appeared", f) for c in d.circuits for f in c.appeared] + [("appeared", f) for f in d.appeared]
-    findings += [("went away", f) for c in d.circuits for f in c.gone] + [("went away", f) for f in d.gone]
-    if findings:
-        out += ["", *table(("finding", "severity", "rule", "parts", "message"),
-                           [f"| {what} | {f.severity.value} | `{f.rule}` | {cell(refs_text(f.refs))} | "
-                            f"{cell(f.message)} |" for what, f in findings])]
-    if not rows and not findings:
-        out.append("No electrical change.")
-    return "\n".join(out) + "\n"
-
-
-FORMATS: dict[str, Callable[[NetlistDiff], str]] = {
-    "text": render_text, "json": render_json, "markdown": render_markdown,
-}

@@ -7,7 +7,7 @@ import re
 from collections.abc import Callable, Iterator
 from dataclasses import dataclass
 
-from ledlint.ratings import CHIP_SIZES
+from ledlint.quantities.ratings import CHIP_SIZES
 
 
 @dataclass(frozen=True)

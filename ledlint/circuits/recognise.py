@@ -14,10 +14,10 @@ from dataclasses import dataclass
 from enum import Enum
 
 from ledlint.config import DRIVER_KEYS, Config
-from ledlint.graph import NetGraph
-from ledlint.model import Component, Pin
-from ledlint.parts import Kind, classify, led_dies, transistor_pins
-from ledlint.topology import Element, ElementKind, Segment, Terminal, TerminalKind, Topology
+from ledlint.circuits.graph import NetGraph
+from ledlint.netlist.model import Component, Pin
+from ledlint.parts.kinds import Kind, classify, led_dies, transistor_pins
+from ledlint.circuits.topology import Element, ElementKind, Segment, Terminal, TerminalKind, Topology
 
 
 class CircuitKind(Enum):

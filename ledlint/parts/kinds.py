@@ -12,7 +12,7 @@ from dataclasses import dataclass
 from enum import Enum
 from typing import Iterable
 
-from ledlint.model import Component, Pin
+from ledlint.netlist.model import Component, Pin
 
 
 class Kind(Enum):

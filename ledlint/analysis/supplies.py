@@ -13,12 +13,12 @@ from typing import Iterable
 
 from ledlint.config import Config
 from ledlint.engine import Range
-from ledlint.graph import NetGraph
-from ledlint.model import Component, Netlist, Pin, PinType
-from ledlint.params import PIN_RESISTANCE, Missing, rail_params
-from ledlint.parts import Kind, classify
-from ledlint.rails import is_mains_name
-from ledlint.topology import Terminal, TerminalKind
+from ledlint.circuits.graph import NetGraph
+from ledlint.netlist.model import Component, Netlist, Pin, PinType
+from ledlint.parts.params import PIN_RESISTANCE, Missing, rail_params
+from ledlint.parts.kinds import Kind, classify
+from ledlint.parts.rails import is_mains_name
+from ledlint.circuits.topology import Terminal, TerminalKind
 
 SQRT2 = 2 ** 0.5  # peak over RMS of a sine
 HIGH_VOLTAGE = 60.0  # V DC: above it the usual safety caution applies (SELV limit, common practice)

@@ -31,9 +31,9 @@ from typing import Any
 
 from ledlint import __version__
 from ledlint.errors import LedlintError, read_utf8
-from ledlint.findings import Finding, Severity
-from ledlint.report.markdown import posix_path
-from ledlint.run import FileResult, RunResult
+from ledlint.checks.findings import Finding, Severity
+from ledlint.paths import posix_path
+from ledlint.review.run import FileResult, RunResult
 
 FORMAT_KEY = "ledlint_baseline"
 VERSION = 1

@@ -14,14 +14,14 @@ from contextlib import contextmanager
 from typing import Callable, Iterable, Iterator, Sequence
 
 from ledlint import config as configuration
-from ledlint.analyse import BoardAnalysis, analyse
+from ledlint.analysis.board import BoardAnalysis, analyse
 from ledlint.config import WAIVER_FIELD, Config, Waiver
 from ledlint.errors import ConfigError, LedlintError
-from ledlint.findings import Finding, Severity
-from ledlint.model import Netlist
-from ledlint.reader import read_netlist
+from ledlint.checks.findings import Finding, Severity
+from ledlint.netlist.model import Netlist
+from ledlint.netlist.kicad_net import read_netlist
 import ledlint.rules as builtin_rules
-from ledlint.registry import Rule, RuleSettings, run_rules, settings, validate
+from ledlint.checks.registry import Rule, RuleSettings, run_rules, settings, validate
 
 FAIL_LEVELS = ("error", "warning", "info", "never")
 ENTRY_POINT_GROUP = "ledlint.rules"  # third-party rules: an entry point naming a Rule object

@@ -7,7 +7,7 @@ from dataclasses import dataclass
 from enum import Enum
 from functools import lru_cache
 
-from ledlint.units import parse_voltage
+from ledlint.quantities.units import parse_voltage
 
 
 class RailKind(Enum):

@@ -7,7 +7,7 @@ import string
 from dataclasses import dataclass, field
 from enum import Enum
 
-from ledlint.units import quantity
+from ledlint.quantities.units import quantity
 
 
 class Severity(Enum):

@@ -1,0 +1,1 @@
+"""What a check is: findings and the rule registry."""

@@ -1,0 +1,1 @@
+"""What each part and net is on an LED board, and their electrical parameters with their origin."""
