@@ -77,6 +77,9 @@ class Component:
     sheet: str = "/"
     line: int = 0
     pins: tuple[Pin, ...] = ()
+    file: str = ""  # the file that holds it, when not the netlist's own (a schematic's sub-sheet)
+    exclude_from_board: bool = False
+    exclude_from_sim: bool = False
 
     def pin(self, number: str) -> Pin | None:
         for p in self.pins:
