@@ -329,6 +329,7 @@ class _Builder:
             ref=ref, value=value, footprint=footprint, datasheet=datasheet, description=description,
             lib=lib, part=part, fields=FrozenMap(fields), properties=FrozenMap(properties),
             dnp=dnp, exclude_from_bom="exclude_from_bom" in properties, sheet=sheet or "/",
+            exclude_from_board="exclude_from_board" in properties, exclude_from_sim="exclude_from_sim" in properties,
             line=self.line(comp), pins=tuple(pins),
         )
 
