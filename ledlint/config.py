@@ -61,6 +61,7 @@ class Waiver:
     ref: str = ""
     fingerprint: str = ""
     origin: str = ""  # where it was written: a config file, or "field ledlint_waive on R3"
+    in_source: bool = False  # written on a part in the design itself
 
 
 def _empty() -> Mapping[str, Any]:
@@ -187,7 +188,7 @@ def _part_value(key: str, value: Any, where: str, path: str) -> str:
         number = q[0].value if isinstance(q, tuple) else q.value
         if not plausible(base, number):
             raise ConfigError(f"{where} {key}: {value!r} is outside what a part of this kind can be", path)
-        return value
+        return str(value)
     text = _text(value, f"{where} {key}", path)
     if base == "driver" and text not in DRIVER_KINDS:
         raise ConfigError(f"{where} driver: {text!r}{suggest(text, DRIVER_KINDS)}", path)

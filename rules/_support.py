@@ -4,12 +4,14 @@ from __future__ import annotations
 
 from typing import Iterable
 
-from ledlint.analysis.board import Analysis, LedResult, ResistorResult
+from ledlint.analysis.results import Analysis, Computed, CurrentDriven, Driven, Incomplete, LedResult, ResistorResult
+from ledlint.analysis.switching import SwitchDrive
 from ledlint.checks.findings import Severity, quantity
-from ledlint.parts.params import Missing, Origin, Param
 from ledlint.checks.registry import RuleContext
-from ledlint.analysis.drive import SwitchDrive
-from ledlint.analysis.sizing import FORCED_GAIN, NoBallast, ballast_fix, base_resistor
+from ledlint.circuits.circuit import Wired
+from ledlint.parts.kinds import LedId
+from ledlint.parts.params import Missing, Origin, Param
+from ledlint.rules._options import DEAD_RATIO, DESIGN_FACTOR, MARGIN, MIN_RATIO
 
 
 def assumed_param(name: str, p: Param | Missing | None, unit: str = "") -> list[str]:
@@ -38,11 +40,14 @@ def resistor_assumptions(r: ResistorResult, *, rating: bool = False) -> list[str
 
 
 def circuit_assumptions(a: Analysis) -> list[str]:
-    out = [a.ambient_basis] if a.ambient_basis else []
-    out += list(a.supply.basis) if a.supply else []
-    out += list(a.assumptions)
-    if a.set_current is not None:
-        out.append(f"set current: {a.set_current.basis}")
+    """What a circuit's figures rest on: the ambient, the supply, the parts' assumed behaviour."""
+    out = [a.ambient_basis] if isinstance(a, Computed) and a.ambient_basis else []
+    if isinstance(a, (Computed, Incomplete)):
+        out += list(a.supply.basis) if a.supply else []
+        out += list(a.assumptions)
+    set_current = a.set_current if isinstance(a, (CurrentDriven, Incomplete)) else None
+    if set_current is not None:
+        out.append(f"set current: {set_current.basis}")
     return out
 
 
@@ -62,35 +67,40 @@ def join(items: Iterable[str]) -> str:
     return ", ".join(items[:-1]) + " and " + items[-1]
 
 
-def ids(leds: Iterable[LedResult | str]) -> str:
-    names = [x if isinstance(x, str) else x.id for x in leds]
-    return join(names) if len(names) <= 6 else f"{names[0]} … {names[-1]} ({len(names)} LEDs)"
+def ids(leds: Iterable[LedResult | LedId | str]) -> str:
+    names = [x.id if isinstance(x, LedResult) else x for x in leds]
+    text = [str(x) for x in names]
+    return join(text) if len(text) <= 6 else f"{text[0]} … {text[-1]} ({len(text)} LEDs)"
 
 
-def current_target(ctx: RuleContext, a: Analysis) -> float | None:
+def current_target(ctx: RuleContext, a: Driven) -> float | None:
     """The current a fix must keep every LED under: the current-margin share of each known If_max,
     and the same share of any controller pin's limit."""
-    margin = ctx.option_of("current-margin", "margin", 0.75)
+    margin = ctx.option_of(MARGIN)
     limits = [margin * r.params.if_max.value for r in a.leds if isinstance(r.params.if_max, Param)]
     limits += [margin * p.limit.value for p in a.pins]
     return min(limits) if limits else None
 
 
-def ballast_hint(ctx: RuleContext, a: Analysis, fallback: str) -> str:
+def ballast_hint(ctx: RuleContext, a: Driven, fallback: str) -> str:
     """One wording of the ballast fix, sized against every limit at once (see sizing.ballast_fix)."""
+    from ledlint.analysis.sizing import NoBallast, ballast_fix  # the engine loads only when a hint is sized
+
     target = current_target(ctx, a)
     if target is None:
         return fallback
-    fix = ballast_fix(a, target, design_factor=ctx.option_of("resistor-overload", "design_factor", 0.5),
-                      dead_ratio=ctx.option_of("supply-headroom", "dead_ratio", 0.1))
+    fix = ballast_fix(a, target, design_factor=ctx.option_of(DESIGN_FACTOR), dead_ratio=ctx.option_of(DEAD_RATIO))
     if isinstance(fix, NoBallast):
         return fix.reason
     if fix is None:
         return fallback
     size = f"{fix.chip} or larger" if fix.chip else "a power resistor"
-    unit = "LED" if all(len(b.leds) == 1 for b in a.circuit.branches) else "string"
-    ballast = [e.ref for e in a.circuit.resistors]
-    if fix.per_string and not a.circuit.shared_resistors:  # each string has its own already: change them all
+    c = a.circuit
+    branches = c.branches if isinstance(c, Wired) else ()
+    unit = "LED" if all(len(b.leds) == 1 for b in branches) else "string"
+    ballast = [e.ref for e in c.resistors]
+    shared = isinstance(c, Wired) and bool(c.shared_resistors)
+    if fix.per_string and not shared:  # each string has its own already: change them all
         what = f"use {quantity(fix.resistance, 'Ω')} (E24) for each of {join(ballast)}"
     elif fix.per_string:
         what = f"give each {unit} its own {quantity(fix.resistance, 'Ω')} resistor (E24) instead of the shared one"
@@ -100,18 +110,21 @@ def ballast_hint(ctx: RuleContext, a: Analysis, fallback: str) -> str:
     text = (f"{what}: worst case {quantity(fix.current_max, 'A')} (limit {quantity(target, 'A')}), "
             f"{quantity(fix.power_max, 'W')} in {'each' if fix.per_string else 'it'}, so at least "
             f"{quantity(fix.rating, 'W')} rated ({size})")
-    if fix.low_ratio < ctx.option_of("supply-headroom", "min_ratio", 0.5):
+    if fix.low_ratio < ctx.option_of(MIN_RATIO):
         text += f"; at the low corner the current still falls to {quantity(fix.low_ratio, '%')} of nominal"
     return text
 
 
-def switch_current(a: Analysis) -> float:
+def switch_current(a: Driven) -> float:
     """The most current a switch in the LEDs' path carries: every string at its worst."""
-    return max(r.current.maximum for r in a.leds) * max(len(a.circuit.branches), 1)
+    branches = a.circuit.branches if isinstance(a.circuit, Wired) else ()
+    return max(r.current.maximum for r in a.leds) * max(len(branches), 1)
 
 
-def base_resistor_hint(a: Analysis, d: SwitchDrive, limit: float) -> str:
+def base_resistor_hint(a: Driven, d: SwitchDrive, limit: float) -> str:
     """The base resistor that saturates a bipolar switch and spares its pin (sizing.base_resistor)."""
+    from ledlint.analysis.sizing import FORCED_GAIN, base_resistor
+
     collector = switch_current(a)
     r_b = base_resistor(d, collector, limit)
     if r_b is None:

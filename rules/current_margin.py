@@ -38,20 +38,25 @@ from typing import Iterator
 
 from ledlint.checks.findings import Finding, Severity, Value, quantity
 from ledlint.parts.params import Param
-from ledlint.checks.registry import Option, Rule, RuleContext
-from ledlint.analysis.board import Analysis
+from ledlint.analysis.results import CurrentDriven, Driven, VoltageDriven
+from ledlint.checks.registry import Rule, RuleContext
+from ledlint.circuits.bank import ResistorBank
+from ledlint.circuits.circuit import CircuitKind, Wired
+from ledlint.rules._options import MARGIN
 from ledlint.rules._support import (ballast_hint, by_evidence, circuit_assumptions, ids, led_assumptions,
                                     resistor_assumptions)
 
 
 def check(ctx: RuleContext) -> Iterator[Finding]:
-    margin = ctx.options["margin"]
+    margin = ctx.options[MARGIN.option.name]
     for a in ctx.analyses:
-        if not a.solved or a.unlimited:
+        if not isinstance(a, Driven) or (isinstance(a, VoltageDriven) and a.unlimited):
             continue
         c = a.circuit
-        shared = bool(c.shared_resistors) or a.set_current is not None
-        if len(c.branches) > 1 and not c.individually_driven and shared:
+        assert isinstance(c, Wired)  # every kind this rule reads is strings between two ends
+        shared = bool(c.shared_resistors) or isinstance(a, CurrentDriven)
+        individually = isinstance(c, ResistorBank) and c.individually_driven
+        if len(c.branches) > 1 and not individually and shared:
             continue  # LEDs sharing a resistor or an output: shared-resistor-bank or driver-parallel-strings
         over = []  # (severity, led) for every LED past the margin; one finding per circuit
         for led in a.leds:
@@ -93,18 +98,18 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                           corner=corner)
 
 
-def _corner(a: Analysis) -> str:
+def _corner(a: Driven) -> str:
     """The high-current corner in figures, for a voltage-driven circuit: what made the worst case."""
     ec = a.engine[0] if a.engine else None
-    if a.set_current is not None or ec is None or ec.supply is None:
+    if isinstance(a, CurrentDriven) or ec is None or ec.supply is None:
         return ""
     tol = ec.r_series.maximum / ec.r_series.nominal - 1 if ec.r_series.nominal > 0 else 0.0
     parts = [f"{quantity(ec.supply.maximum, 'V')} supply"] + ([f"R −{quantity(tol, '%')}"] if tol > 0 else [])
     return ", ".join(parts + ["Vf at its minimum", f"{ec.ambient.maximum:g} °C ambient"])
 
 
-def _hint(ctx: RuleContext, a: Analysis) -> str:
-    if a.set_current is not None:
+def _hint(ctx: RuleContext, a: Driven) -> str:
+    if isinstance(a, CurrentDriven):
         return "lower the set current so the worst case stays inside the margin"
     return ballast_hint(ctx, a, "raise the ballast resistance until the worst case is inside the margin")
 
@@ -114,6 +119,7 @@ RULE = Rule(
     summary="worst-case LED current above 75 % of If_max (warning) or above If_max (error)",
     severity=Severity.ERROR,
     check=check,
-    options=(Option("margin", 0.75, "fraction of If_max", "the share of If_max the worst case may reach", 0.05, 1.0),),
+    options=(MARGIN.option,),
     doc=__doc__,
+    kinds=(CircuitKind.STRING, CircuitKind.BANK, CircuitKind.SINK, CircuitKind.DRIVER),
 )

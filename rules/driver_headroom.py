@@ -38,7 +38,11 @@ from typing import Iterator
 
 from ledlint.checks.findings import Finding, Severity, Value
 from ledlint.parts.params import known
-from ledlint.circuits.recognise import CircuitKind
+from ledlint.analysis.results import CurrentDriven
+from ledlint.analysis.setpoints import DriverKind
+from ledlint.circuits.circuit import CircuitKind
+from ledlint.circuits.driver import DriverOutput
+from ledlint.circuits.sink import CurrentSink
 from ledlint.checks.registry import Rule, RuleContext
 from ledlint.rules._support import circuit_assumptions, ids, led_assumptions
 
@@ -46,10 +50,11 @@ from ledlint.rules._support import circuit_assumptions, ids, led_assumptions
 def check(ctx: RuleContext) -> Iterator[Finding]:
     for a in ctx.analyses:
         c = a.circuit
-        setc = a.set_current
-        if c.kind not in (CircuitKind.SINK, CircuitKind.DRIVER) or not a.solved or setc is None:
+        if not isinstance(a, CurrentDriven):
             continue
-        out = c.sink.transistor.ref if c.sink else c.driver.ref  # type: ignore[union-attr]
+        assert isinstance(c, (CurrentSink, DriverOutput))
+        setc = a.set_current
+        out = c.sink.transistor.ref if isinstance(c, CurrentSink) else c.driver.ref
         limits = dict(setc.limits)
         if setc.current.maximum <= 0:
             yield ctx.finding(a, Severity.ERROR, "{out} never conducts: {basis}, so {leds} stay dark",
@@ -63,7 +68,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                                       Value("cmax", limits["current_max"], "A")), out=out,
                               assumed=tuple(circuit_assumptions(a)),
                               hint="raise the sense resistor, or use a driver rated for the current")
-        if a.supply is not None and setc.kind != "boost":
+        if a.supply is not None and setc.kind is not DriverKind.BOOST:
             v = a.supply.volts
             if "vin_min" in limits and v.minimum < limits["vin_min"]:
                 yield ctx.finding(a, Severity.ERROR, "{out}'s input can fall to {vin}, below its vin_min of {limit}",
@@ -75,12 +80,12 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                                   values=(Value("vin", v.maximum, "V", limits["vin_max"], ">"),
                                           Value("limit", limits["vin_max"], "V")), out=out,
                                   assumed=tuple(circuit_assumptions(a)), hint="a lower input, or a driver for it")
-        strings = [sum(known(r.params.vf_max) for r in a.leds if r.id in {e.id for e in b.leds})
+        strings = [sum(known(r.params.vf_max) for r in a.leds if r.id in {e.led for e in b.leds})
                    for b in c.branches if all(r.params.complete for r in a.leds)]
         assumed = tuple(x for r in a.leds for x in led_assumptions(r))[:6] + tuple(circuit_assumptions(a))
-        if setc.kind == "boost" and strings:
+        if setc.kind is DriverKind.BOOST and strings:
             high = max(strings)
-            low = min(sum(known(r.params.vf_min) for r in a.leds if r.id in {e.id for e in b.leds})
+            low = min(sum(known(r.params.vf_min) for r in a.leds if r.id in {e.led for e in b.leds})
                       for b in c.branches)
             if "vout_max" in limits and high > limits["vout_max"]:
                 yield ctx.finding(a, Severity.ERROR, "{out} (boost) cannot reach the string voltage: {leds} need up "
@@ -97,12 +102,13 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
             continue
         if a.headroom_v is None or a.headroom_v >= 0:
             continue
-        need = a.supply.volts.minimum - a.headroom_v  # type: ignore[union-attr]
+        assert a.supply is not None  # a headroom is worked out from a known supply
+        need = a.supply.volts.minimum - a.headroom_v
         yield ctx.finding(
             a, Severity.ERROR, "{out} cannot hold its current: the input can fall to {vin}, but {who} needs {need} "
             "(string at maximum Vf and the coldest ambient, {cold}, plus {sense} sense and {dropout} dropout); "
             "short by {short}",
-            values=(Value("vin", a.supply.volts.minimum, "V"), Value("need", need, "V"),  # type: ignore[union-attr]
+            values=(Value("vin", a.supply.volts.minimum, "V"), Value("need", need, "V"),
                     Value("short", -a.headroom_v, "V", 0.0, ">"), Value("sense", setc.sense_voltage.maximum, "V"),
                     Value("dropout", setc.dropout.maximum, "V")),
             out=out, who=(f"each of its {len(c.branches)} strings (such as {ids([e.id for e in c.branches[0].leds])})"
@@ -117,4 +123,5 @@ RULE = Rule(
     severity=Severity.ERROR,
     check=check,
     doc=__doc__,
+    kinds=(CircuitKind.SINK, CircuitKind.DRIVER),
 )

@@ -38,13 +38,15 @@ from __future__ import annotations
 from typing import Iterator
 
 from ledlint.quantities.ratings import chip_for
-from ledlint.analysis.board import Analysis, ResistorRole
+from ledlint.analysis.results import CurrentDriven, ResistorRole
 from ledlint.checks.findings import Finding, Severity, Value, quantity
 from ledlint.parts.params import Param
-from ledlint.circuits.recognise import CircuitKind
+from ledlint.circuits.circuit import CircuitKind
+from ledlint.circuits.driver import DriverOutput
+from ledlint.circuits.sink import CurrentSink
 from ledlint.checks.registry import Option, Rule, RuleContext
 from ledlint.rules._support import by_evidence, circuit_assumptions, ids, led_assumptions
-from ledlint.analysis.sizing import balancing_for
+from ledlint.rules._options import DESIGN_FACTOR
 
 # More than this across a balancing resistor wastes more than it balances (common practice).
 _MAX_BALANCING_DROP = 2.0
@@ -54,13 +56,13 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
     limit = ctx.options["spread_limit"]
     for a in ctx.analyses:
         c = a.circuit
-        if c.kind not in (CircuitKind.SINK, CircuitKind.DRIVER) or len(c.branches) < 2:
+        assert isinstance(c, (CurrentSink, DriverOutput))
+        if len(c.branches) < 2:
             continue
-        output = c.sink.transistor.ref if c.sink else c.driver.ref  # type: ignore[union-attr]
+        output = c.sink.transistor.ref if isinstance(c, CurrentSink) else c.driver.ref
         n = len(c.branches)
         refs = tuple(dict.fromkeys((output, *c.refs)))
-        stand_in = any(not r.params.complete for r in a.leds)
-        if a.sharing is None:
+        if not isinstance(a, CurrentDriven) or a.sharing is None:
             yield ctx.finding(a, Severity.WARNING, "{n} strings ({leds}) share one constant-current output, "
                               "{output}: the current splits by forward voltage, not evenly (not computed: {why})",
                               refs=refs, n=n, leds=ids(c.leds), output=output,
@@ -68,7 +70,8 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                               hint="give each string its own output, or a balancing resistor")
             continue
         s = a.sharing
-        if a.set_current is not None and a.set_current.current.maximum <= 0:
+        stand_in = any(not r.params.complete for r in a.leds)
+        if a.set_current.current.maximum <= 0:
             continue  # the output never conducts: driver-headroom says so
         worst = next(r for r in a.leds if r.id == s.worst_led)
         if_max = worst.params.if_max
@@ -83,7 +86,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
         severity = by_evidence(severity, assumed)
         values = [Value("share", s.equal_share, "A"), Value("spread", s.spread_p99, "%", limit, ">"),
                   Value("worst", s.worst_current, "A", if_max.value if isinstance(if_max, Param) else None, ">"),
-                  Value("total", a.set_current.current.nominal, "A")]  # type: ignore[union-attr]
+                  Value("total", a.set_current.current.nominal, "A")]
         template = ("{n} strings share {output}'s {total}: {share} each on paper, but the split varies by up to "
                     "{spread} of the mean (99th percentile of {samples} Monte Carlo samples) and the string with {led} can "
                     "take {worst}")
@@ -100,7 +103,9 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                           samples=s.samples, led=s.worst_led, hint=_hint(ctx, a, limit), assumed=tuple(notes))
 
 
-def _hint(ctx: RuleContext, a: Analysis, limit: float) -> str:
+def _hint(ctx: RuleContext, a: CurrentDriven, limit: float) -> str:
+    from ledlint.analysis.sizing import balancing_for  # the engine loads only when a hint is sized
+
     text = "give each string its own output or sink transistor"
     fix = balancing_for(a, limit)
     if fix is None:
@@ -114,7 +119,7 @@ def _hint(ctx: RuleContext, a: Analysis, limit: float) -> str:
                else "too much to waste")
         return text + (f" (a balancing resistor would have to drop {quantity(fix.drop, 'V')} per string to hold "
                        f"the split within {quantity(limit, '%')}: {why})")
-    factor = ctx.option_of("resistor-overload", "design_factor", 0.5)
+    factor = ctx.option_of(DESIGN_FACTOR)
     chip = chip_for(fix.power_max / factor)
     size = f", rated at least {quantity(fix.power_max / factor, 'W')} ({chip[0] + ' or larger' if chip else 'a power resistor'})"
     part = f"{quantity(fix.resistance, 'Ω')} {fix.tolerance * 100:g} % (E24)"
@@ -132,4 +137,5 @@ RULE = Rule(
     check=check,
     options=(Option("spread_limit", 0.10, "fraction of the mean", "split unevenness from which to warn", 0.01, 1.0),),
     doc=__doc__,
+    kinds=(CircuitKind.SINK, CircuitKind.DRIVER),
 )

@@ -34,7 +34,8 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ledlint.analysis.board import Analysis
+from ledlint.analysis.results import Analysis, Driven, VoltageDriven
+from ledlint.circuits.circuit import CircuitKind
 from ledlint.checks.findings import Finding, Severity, Value
 from ledlint.parts.params import Param
 from ledlint.checks.registry import Rule, RuleContext
@@ -48,7 +49,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
 
 def _too_hot(ctx: RuleContext, a: Analysis) -> Iterator[Finding]:
     """A junction that self-heating takes past its rating at the worst corner."""
-    if not a.solved or a.unlimited:
+    if not isinstance(a, Driven) or (isinstance(a, VoltageDriven) and a.unlimited):
         return  # with nothing limiting the current, unlimited-led already says it all
     # An LED driven past its If_max is current-margin's finding; a junction too hot within the
     # current rating (a poor heat path) is the one to add.
@@ -74,4 +75,5 @@ RULE = Rule(
     severity=Severity.WARNING,
     check=check,
     doc=__doc__,
+    kinds=(CircuitKind.STRING, CircuitKind.BANK, CircuitKind.SINK, CircuitKind.DRIVER),
 )

@@ -31,7 +31,6 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ledlint.analysis.drive import NO_SENSE
 from ledlint.checks.findings import Finding, Severity
 from ledlint.checks.registry import Rule, RuleContext
 from ledlint.rules._support import ids
@@ -42,7 +41,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
     reasons: dict[tuple[str, str], str] = {}
     for a in ctx.analyses:
         for m in a.missing + a.gaps:
-            if m.name == NO_SENSE:
+            if m.fault:
                 continue  # not a gap but a fault: unlimited-led reports it
             groups.setdefault((m.name, m.fix), []).append(a)
             reasons.setdefault((m.name, m.fix), m.reason)

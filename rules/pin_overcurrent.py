@@ -34,8 +34,9 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ledlint.analysis.board import Analysis, PinResult
-from ledlint.analysis.drive import SwitchDrive
+from ledlint.analysis.results import Driven, PinResult
+from ledlint.analysis.switching import SwitchDrive
+from ledlint.circuits.circuit import CircuitKind
 from ledlint.checks.findings import Finding, Severity, Value
 from ledlint.checks.registry import Rule, RuleContext
 from ledlint.rules._support import assumed_param, ballast_hint, base_resistor_hint, circuit_assumptions, ids
@@ -43,7 +44,7 @@ from ledlint.rules._support import assumed_param, ballast_hint, base_resistor_hi
 
 def check(ctx: RuleContext) -> Iterator[Finding]:
     for a in ctx.analyses:
-        if not a.solved:
+        if not isinstance(a, Driven):
             continue
         for p in a.pins:
             if p.current_max <= p.limit.value:
@@ -64,7 +65,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                 line=comp.line if comp else None)
 
 
-def _base_finding(ctx: RuleContext, a: Analysis, p: PinResult, b: SwitchDrive, values: tuple[Value, ...],
+def _base_finding(ctx: RuleContext, a: Driven, p: PinResult, b: SwitchDrive, values: tuple[Value, ...],
                   assumed: tuple[str, ...], verb: str) -> Finding:
     """A pin driving a switch's base: the base is a diode to the emitter, so only resistance
     between them limits the pin's current."""
@@ -85,4 +86,5 @@ RULE = Rule(
     severity=Severity.ERROR,
     check=check,
     doc=__doc__,
+    kinds=(CircuitKind.STRING, CircuitKind.BANK),
 )

@@ -36,7 +36,8 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ledlint.analysis.board import ResistorRole
+from ledlint.analysis.results import Computed, CurrentDriven, ResistorRole
+from ledlint.circuits.circuit import CircuitKind
 from ledlint.checks.findings import Finding, Severity, Value, quantity
 from ledlint.parts.params import Param
 from ledlint.quantities.ratings import chip_for, derated_power
@@ -50,10 +51,10 @@ _ROLE = {ResistorRole.BALLAST: "ballast", ResistorRole.BALANCING: "balancing res
 def check(ctx: RuleContext) -> Iterator[Finding]:
     factor = ctx.options["design_factor"]
     for a in ctx.analyses:
-        if not a.solved:
+        if not isinstance(a, Computed):
             continue
         for r in a.resistors:
-            if r.role is ResistorRole.BALANCING and a.set_current is not None and (a.headroom_v or 0.0) < 0:
+            if r.role is ResistorRole.BALANCING and isinstance(a, CurrentDriven) and (a.headroom_v or 0.0) < 0:
                 continue  # the output cannot hold its current (driver-headroom): this power is not real
             role = _ROLE[r.role]
             rating = r.params.power
@@ -99,4 +100,5 @@ RULE = Rule(
     check=check,
     options=(Option("design_factor", 0.5, "fraction of rating", "the share of the derated rating to use", 0.05, 1.0),),
     doc=__doc__,
+    kinds=(CircuitKind.STRING, CircuitKind.BANK, CircuitKind.SINK, CircuitKind.DRIVER),
 )

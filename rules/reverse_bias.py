@@ -35,26 +35,31 @@ from __future__ import annotations
 from typing import Iterator
 
 from ledlint.checks.findings import Finding, Severity, Value
+from ledlint.analysis.results import Computed
 from ledlint.checks.registry import Rule, RuleContext
+from ledlint.circuits.circuit import CircuitKind
+from ledlint.circuits.string import SeriesString
 from ledlint.rules._support import assumed_param, circuit_assumptions
 
 
 def check(ctx: RuleContext) -> Iterator[Finding]:
     for a in ctx.analyses:
-        if not a.solved or a.supply is None:
+        if not isinstance(a, Computed) or a.supply is None:
             continue
         c = a.circuit
+        blocked = isinstance(c, SeriesString) and c.blocked
         reversed_whole = a.supply.volts.maximum < 0
         for led in a.leds:
             vr = led.params.vr_max.value
-            ref = led.id.split(":")[0]
-            src, ret = (c.source.net if c.source else "?"), (c.ret.net if c.ret else "?")
+            ref = led.id.ref
+            source, ret_end = c.ends
+            src, ret = (source.net if source else "?"), (ret_end.net if ret_end else "?")
             values = (Value("reverse", led.reverse_v, "V", vr, ">"), Value("vr_max", vr, "V"))
             assumed = tuple(assumed_param(f"{led.id} Vr_max", led.params.vr_max, "V") + circuit_assumptions(a))
-            if c.blocked and led.reverse_v > 0:
+            if isinstance(c, SeriesString) and blocked and led.reverse_v > 0:
                 yield ctx.finding(a, Severity.ERROR, "{led} faces against the rest of its string ({why}): the "
                                   "string never conducts and {led} can see {reverse} in reverse (Vr_max {vr_max})",
-                                  refs=(ref,), values=values, assumed=assumed, led=led.id, why=c.blocked,
+                                  refs=(ref,), values=values, assumed=assumed, led=led.id, why=c.conflict_text(),
                                   hint=f"turn {led.id} round (or fix its symbol's pin numbering)")
             elif reversed_whole:
                 yield ctx.finding(a, Severity.ERROR, "{led} is reversed: its anode side is on {src}, lower than its "
@@ -73,4 +78,5 @@ RULE = Rule(
     severity=Severity.ERROR,
     check=check,
     doc=__doc__,
+    kinds=(CircuitKind.STRING, CircuitKind.BANK, CircuitKind.SINK, CircuitKind.DRIVER),
 )

@@ -40,9 +40,10 @@ from typing import Iterator
 
 from ledlint.checks.findings import Finding, Severity, Value, quantity
 from ledlint.parts.params import Param, known
-from ledlint.circuits.recognise import CircuitKind
+from ledlint.analysis.results import Computed, Driven, Incomplete
 from ledlint.checks.registry import Rule, RuleContext
-from ledlint.analysis.board import Analysis
+from ledlint.circuits.bank import ResistorBank
+from ledlint.circuits.circuit import CircuitKind
 from ledlint.rules._support import ballast_hint, by_evidence, circuit_assumptions, ids, join, led_assumptions
 from ledlint.analysis.sizing import equal_share_resistor
 
@@ -50,13 +51,12 @@ from ledlint.analysis.sizing import equal_share_resistor
 def check(ctx: RuleContext) -> Iterator[Finding]:
     for a in ctx.analyses:
         c = a.circuit
-        if c.kind is not CircuitKind.BANK:
-            continue
+        assert isinstance(c, ResistorBank)
         shared = [e.ref for e in c.shared_resistors]
         if not shared:
             continue  # strings each with their own resistor, sharing only a switch: current-margin's
         leds = list(c.leds)
-        refs = tuple(dict.fromkeys(shared + [i.split(":")[0] for i in leds]))
+        refs = tuple(dict.fromkeys(shared + list(c.led_refs)))
         nets = (c.node,)
         strings = [b.leds for b in c.branches]
         if any(len(st) > 1 for st in strings):
@@ -71,9 +71,9 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                               "are lit at once the one with the lowest Vf takes most of the current",
                               refs=refs, nets=nets, who=who, node=c.node, pins=", ".join(pins),
                               hint="fine if only one is ever lit at a time; otherwise give each its own resistor",
-                              assumed=tuple(a.assumptions))
+                              assumed=tuple(a.assumptions) if isinstance(a, (Computed, Incomplete)) else ())
             continue
-        if not a.solved or a.sharing is None:
+        if not isinstance(a, Driven) or a.sharing is None:
             yield ctx.finding(a, Severity.WARNING, "{who} on {node}: the current splits by forward voltage, not "
                               "evenly (the split could not be computed: {why})", refs=refs, nets=nets, who=who,
                               node=c.node, why="; ".join(m.reason for m in a.missing) or "not analysed",
@@ -100,12 +100,13 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                           assumed=tuple(led_assumptions(worst, limit=True) + circuit_assumptions(a)))
 
 
-def _hint(ctx: RuleContext, a: Analysis) -> str:
+def _hint(ctx: RuleContext, a: Driven) -> str:
     """One resistor per string, sized against every limit; or all in series when the supply allows."""
     c = a.circuit
+    assert isinstance(c, ResistorBank)
     hint = ballast_hint(ctx, a, "give each LED its own resistor")
     by_id = {r.id: r for r in a.leds}
-    strings = [[by_id[e.id] for e in b.leds] for b in c.branches]
+    strings = [[by_id[e.led] for e in b.leds] for b in c.branches]
     if a.supply is None or a.sharing is None:
         return hint
     string_max = max(sum(known(r.params.vf_max) for r in st) for st in strings)
@@ -127,4 +128,5 @@ RULE = Rule(
     severity=Severity.ERROR,
     check=check,
     doc=__doc__,
+    kinds=(CircuitKind.BANK,),
 )

@@ -41,7 +41,9 @@ from typing import Iterator
 
 from ledlint.checks.findings import Finding, Severity, Value, quantity
 from ledlint.checks.registry import Option, Rule, RuleContext
-from ledlint.analysis.sizing import headroom_fix
+from ledlint.analysis.results import VoltageDriven
+from ledlint.circuits.bank import ResistorBank
+from ledlint.circuits.circuit import CircuitKind, Wired
 from ledlint.circuits.topology import TerminalKind
 from ledlint.rules._support import by_evidence, circuit_assumptions, ids, is_default, led_assumptions
 
@@ -50,8 +52,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
     least = ctx.options["min_ratio"]
     dead = ctx.options["dead_ratio"]
     for a in ctx.analyses:
-        if (not a.solved or a.unlimited or a.set_current is not None or a.headroom_v is None or a.min_ratio is None
-                or a.supply is None):
+        if not isinstance(a, VoltageDriven) or a.unlimited or a.headroom_v is None or a.supply is None:
             continue
         if a.reversed:
             continue  # reversed: reverse-bias reports it, headroom means nothing here
@@ -71,7 +72,9 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                   Value("headroom", a.headroom_v, "V", 0.0, "<"), Value("low", low.low, "A"),
                   Value("nominal", low.current.nominal, "A"),
                   Value("ratio", low.low / max(low.current.nominal, 1e-15), "%", least, "<"))
-        what = "the string needs" if len(a.circuit.branches[0].leds) > 1 else "the LED needs"
+        circuit = a.circuit
+        assert isinstance(circuit, Wired)
+        what = "the string needs" if len(circuit.branches[0].leds) > 1 else "the LED needs"
         if a.headroom_v <= 0:
             template = ("{leds}: no headroom at the low corner. The supply can fall to {supply_min} but "
                         + what + " {string} at maximum Vf (headroom {headroom}), so {led} drops to {low} "
@@ -79,8 +82,12 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
         else:
             template = ("at the low corner ({supply_min} supply, maximum Vf) {led} drops to {low}, "
                         "{ratio} of its {nominal} nominal: only {headroom} is left above the maximum Vf")
+        from ledlint.analysis.sizing import headroom_fix  # the engine loads only when a hint is sized
+
         fix = headroom_fix(a, least)
         c = a.circuit
+        assert isinstance(c, Wired)
+        individually = isinstance(c, ResistorBank) and c.individually_driven
         tol = a.supply.volts.maximum / a.supply.volts.nominal - 1 if a.supply.volts.nominal > 0 else 0.0
         rail = (f"{quantity(fix.supply, 'V')} nominal (±{quantity(tol, '%')} as now), with the ballast re-sized "
                 "for the same current" if fix is not None and fix.supply is not None else "")
@@ -88,7 +95,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                  and fix.leds is not None else "fewer LEDs in series")
         if fix is not None and fix.supply is not None:
             values += (Value("supply_needed", fix.supply, "V"),)
-        if any(t is not None and t.kind is TerminalKind.PIN for t in (c.source, c.ret)) or c.individually_driven:
+        if any(t is not None and t.kind is TerminalKind.PIN for t in (c.source, c.ret)) or individually:
             # A pin's level is its IC's supply: raising one end's rail back-drives the pin.
             hint = ((f"switch the LED with a transistor from a rail of at least {rail}, or " if rail else "")
                     + "use a lower-Vf LED or a constant-current driver")
@@ -98,7 +105,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
             hint = ("the supply's own tolerance leaves no resistor that holds the current: use a "
                     f"constant-current driver, {fewer}, or a lower-Vf LED")
         # LEDs each lit alone by their own pin are separate circuits for headroom: name the one.
-        who = low.id if a.circuit.individually_driven else ids(a.circuit.leds)
+        who = low.id if individually else ids(a.circuit.leds)
         yield ctx.finding(a, severity, template, values=values, hint=hint, leds=who, led=low.id,
                           assumed=tuple(x for r in a.leds for x in led_assumptions(r)) + tuple(circuit_assumptions(a)))
 
@@ -111,4 +118,5 @@ RULE = Rule(
     options=(Option("min_ratio", 0.5, "fraction of nominal", "least low-corner current before a warning"),
              Option("dead_ratio", 0.1, "fraction of nominal", "below this the string counts as not conducting")),
     doc=__doc__,
+    kinds=(CircuitKind.STRING, CircuitKind.BANK),
 )

@@ -40,10 +40,11 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ledlint.analysis.drive import VBE, VGS
+from ledlint.analysis.results import VoltageDriven
+from ledlint.circuits.circuit import CircuitKind
+from ledlint.parts.devices import PIN_LIMIT, VBE, VGS
 from ledlint.checks.findings import Finding, Severity, Value
 from ledlint.netlist.model import PinType
-from ledlint.parts.params import PIN_LIMIT
 from ledlint.parts.kinds import Kind
 from ledlint.checks.registry import Rule, RuleContext
 from ledlint.rules._support import base_resistor_hint, circuit_assumptions, ids, switch_current
@@ -55,7 +56,7 @@ GAIN_WARNING, GAIN_ERROR = 200, 1000
 
 def check(ctx: RuleContext) -> Iterator[Finding]:
     for a in ctx.analyses:
-        if not a.solved:
+        if not isinstance(a, VoltageDriven):
             continue
         c = a.circuit
         for d in a.drives:
@@ -110,4 +111,5 @@ RULE = Rule(
     severity=Severity.ERROR,
     check=check,
     doc=__doc__,
+    kinds=(CircuitKind.STRING, CircuitKind.BANK),
 )

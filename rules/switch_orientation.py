@@ -41,12 +41,14 @@ from ledlint.checks.findings import Finding, Severity
 from ledlint.parts.kinds import Kind
 from ledlint.checks.registry import Rule, RuleContext
 from ledlint.rules._support import by_evidence, circuit_assumptions, ids
-from ledlint.circuits.topology import REVERSED_SWITCH
+from ledlint.circuits.circuit import CircuitKind, Wired
+from ledlint.circuits.string import REVERSED_SWITCH
 
 
 def check(ctx: RuleContext) -> Iterator[Finding]:
     for a in ctx.analyses:
         c = a.circuit
+        assert isinstance(c, Wired)
         for q in c.reversed_switches:
             terminals = "drain and source" if q.part in (Kind.NMOS, Kind.PMOS) else "collector and emitter"
             # The pins' roles rest on an assumed pinout when the symbol does not name them: then
@@ -55,7 +57,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
             part = ctx.board.parts.get(q.ref)
             yield ctx.finding(
                 a, severity, "{why}; it sits between {top} and {bottom} in the path of {leds}",
-                refs=(q.ref, *(i.split(":")[0] for i in c.leds)), nets=(q.net_a, q.net_b),
+                refs=(q.ref, *(i.ref for i in c.leds)), nets=(q.net_a, q.net_b),
                 assumed=tuple(([q.assumption] if q.assumption else []) + circuit_assumptions(a)),
                 hint=f"swap {q.ref}'s {terminals}, or fix its symbol's pin numbering against the footprint",
                 why=REVERSED_SWITCH[q.part].format(ref=q.ref), top=q.net_a, bottom=q.net_b, leds=ids(c.leds),
@@ -68,4 +70,5 @@ RULE = Rule(
     severity=Severity.ERROR,
     check=check,
     doc=__doc__,
+    kinds=(CircuitKind.STRING, CircuitKind.BANK, CircuitKind.SINK, CircuitKind.DRIVER),
 )

@@ -37,14 +37,16 @@ from __future__ import annotations
 from typing import Iterator
 
 from ledlint.checks.findings import Finding, Severity, Value
+from ledlint.analysis.results import BankResult, VoltageDriven
 from ledlint.checks.registry import Option, Rule, RuleContext
+from ledlint.circuits.circuit import CircuitKind
 from ledlint.rules._support import assumed_param, by_evidence, circuit_assumptions, ids
 
 
 def check(ctx: RuleContext) -> Iterator[Finding]:
     limit = ctx.options["gain_limit"]
     for a in ctx.analyses:
-        if not a.solved or a.loop_gain is None or a.loop_gain < limit or a.set_current is not None or a.unlimited:
+        if not isinstance(a, VoltageDriven) or a.loop_gain is None or a.loop_gain < limit or a.unlimited:
             continue  # an LED with nothing to limit it: unlimited-led says so, and no ballast drop can help
         rth_assumed = any(r.params.rth is not None and r.params.rth.assumed for r in a.leds)
         severity = by_evidence(Severity.WARNING, rth_assumed)
@@ -58,7 +60,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                           limit=f"{limit:g}", amp=f"{amplification:.2g}",
                           hint=("give each string its own ballast (the loop is one string taking current from "
                                 "the others: a shared resistor cannot stop it), use a constant-current driver per "
-                                "string, or lower the LEDs' thermal resistance") if len(a.circuit.branches) > 1 else
+                                "string, or lower the LEDs' thermal resistance") if isinstance(a, BankResult) else
                           ("raise the ballast drop (about 1 V across it), use a constant-current driver, or lower "
                            "the LED's thermal resistance"))
 
@@ -70,4 +72,5 @@ RULE = Rule(
     check=check,
     options=(Option("gain_limit", 0.5, "", "loop gain from which to warn", 0.05, 5.0),),
     doc=__doc__,
+    kinds=(CircuitKind.STRING, CircuitKind.BANK),
 )

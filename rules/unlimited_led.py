@@ -32,7 +32,8 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ledlint.analysis.drive import NO_SENSE
+from ledlint.analysis.results import Incomplete, VoltageDriven
+from ledlint.circuits.circuit import CircuitKind
 from ledlint.checks.findings import Finding, Severity, Value
 from ledlint.checks.registry import Rule, RuleContext
 from ledlint.rules._support import ballast_hint, circuit_assumptions, ids
@@ -40,23 +41,24 @@ from ledlint.rules._support import ballast_hint, circuit_assumptions, ids
 
 def check(ctx: RuleContext) -> Iterator[Finding]:
     for a in ctx.analyses:
-        if not a.unlimited:
+        if not isinstance(a, (Incomplete, VoltageDriven)) or not a.unlimited:
             continue
         c = a.circuit
-        src = c.source.net if c.source else "?"
-        ret = c.ret.net if c.ret else "?"
+        source, ret_end = c.ends
+        src = source.net if source else "?"
+        ret = ret_end.net if ret_end else "?"
         values: tuple[Value, ...] = ()
         verb = "sits" if len(c.leds) == 1 else "sit"
         template = ("{leds} " + verb + " across {src} and {ret} with nothing to limit the current: no resistor, "
                     "regulator or driver")
         hint = "add a series resistor sized for the wanted current: R = (V − Vf) / I"
-        zero = [m for m in a.missing if m.name == NO_SENSE]
+        zero = [m for m in a.missing if m.fault]
         if zero:  # a sink or driver whose sense resistor is 0 Ω: it regulates nothing
             yield ctx.finding(a, Severity.ERROR, "{leds}: {why}, and nothing else limits the current",
                               hint=zero[0].fix, leds=ids(c.leds), why=zero[0].reason,
                               assumed=tuple(circuit_assumptions(a)))
             continue
-        if a.solved and a.leds:
+        if isinstance(a, VoltageDriven) and a.leds:
             worst = max(a.leds, key=lambda r: r.current.maximum)
             values = (Value("model", worst.current.maximum, "A"),)
             template += ("; the model gives up to {model}, set only by the LED's internal resistance" if len(c.leds) == 1
@@ -73,4 +75,5 @@ RULE = Rule(
     severity=Severity.ERROR,
     check=check,
     doc=__doc__,
+    kinds=(CircuitKind.STRING, CircuitKind.BANK, CircuitKind.SINK, CircuitKind.DRIVER),
 )

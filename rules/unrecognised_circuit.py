@@ -31,7 +31,8 @@ from __future__ import annotations
 from typing import Iterator
 
 from ledlint.checks.findings import Finding, Severity
-from ledlint.circuits.recognise import CircuitKind
+from ledlint.circuits.circuit import CircuitKind
+from ledlint.circuits.unrecognised import Unrecognised
 from ledlint.checks.registry import Rule, RuleContext
 from ledlint.rules._support import ids
 
@@ -39,10 +40,11 @@ from ledlint.rules._support import ids
 def check(ctx: RuleContext) -> Iterator[Finding]:
     for a in ctx.analyses:
         c = a.circuit
-        if c.kind is CircuitKind.UNRECOGNISED and c.never_lights:
+        assert isinstance(c, Unrecognised)
+        if c.never_lights:
             yield ctx.finding(a, Severity.WARNING, "{leds} can never light: {reason}", leds=ids(c.leds),
                               reason=c.reason, hint="connect the open end, or mark the LED do-not-populate")
-        elif c.kind is CircuitKind.UNRECOGNISED:
+        else:
             yield ctx.finding(a, Severity.INFO, "{leds} not analysed: {reason}", leds=ids(c.leds), reason=c.reason,
                               hint="check this circuit by hand")
 
@@ -53,4 +55,5 @@ RULE = Rule(
     severity=Severity.INFO,
     check=check,
     doc=__doc__,
+    kinds=(CircuitKind.UNRECOGNISED,),
 )

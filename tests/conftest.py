@@ -104,7 +104,8 @@ def fixed_run(tmp_path: Path, monkeypatch: pytest.MonkeyPatch):
     """A run with findings written out by hand (not computed), for the format golden files: they
     pin each format's layout, and stay put when a rule's wording or the engine's figures change.
     The netlist is real (revision A with a field waiver on D2), so lines and waivers are too."""
-    from ledlint.analysis.board import BoardAnalysis
+    from ledlint.analysis.results import BoardAnalysis
+    from ledlint.analysis.summary import summarise
     from ledlint.config import Waiver
     from ledlint.checks.findings import Finding, Severity, Value
     from ledlint.netlist.kicad_net import read_netlist
@@ -130,10 +131,10 @@ def fixed_run(tmp_path: Path, monkeypatch: pytest.MonkeyPatch):
              rule("unlimited-led", "an LED with nothing to limit its current", Severity.ERROR))
 
     def finding(rid: str, severity: Severity, message: str, refs: tuple[str, ...], nets: tuple[str, ...],
-                hint: str = "", waived: str = "", values: tuple[Value, ...] = ()) -> Finding:
+                hint: str = "", waived: str = "", values: tuple[Value, ...] = (), in_source: bool = False) -> Finding:
         return Finding(rid, severity, message, path, line[refs[0]], refs, nets, values=values,
                        assumed=("+12V 11.4-12.6 V (net name: ±5 % default)",), hint=hint, circuit=refs[0],
-                       waived=waived)
+                       waived=waived, waived_in_source=in_source)
 
     active = (
         finding("current-margin", Severity.ERROR, "D1 can carry 219 mA, above its If_max of 30 mA | 7.3×",
@@ -144,10 +145,11 @@ def fixed_run(tmp_path: Path, monkeypatch: pytest.MonkeyPatch):
     )
     waived = (
         finding("unlimited-led", Severity.ERROR, "D2 sits across +5V and GND", ("D2",), ("+5V", "GND"),
-                waived="lit from a current-limited bench supply only"),
+                waived="lit from a current-limited bench supply only", in_source=True),  # the field on D2
         finding("resistor-overload", Severity.ERROR, "R1 dissipates up to 2.15 W", ("R1",), ("+12V", "GND"),
                 waived="R1 is a 2 W part on the assembly drawing"),
     )
-    fr = FileResult(path, netlist, BoardAnalysis(netlist, (), (), ()), active, waived, "ledlint.toml")
+    board = BoardAnalysis(netlist, (), (), ())
+    fr = FileResult(path, netlist, board, active, waived, "ledlint.toml", summarise(path, board))
     unused = (Waiver("current-margin", "D9 was removed", ref="D9", origin="ledlint.toml [[waivers]] #2"),)
     return RunResult((fr,), rules, unused)

@@ -14,7 +14,10 @@ from ledlint.report import text as text_report
 from ledlint.review import diff
 from ledlint.review.diff import Moved, Quantity, Status
 from ledlint.checks.findings import Finding, Severity
+from ledlint.circuits.bank import ResistorBank
 from ledlint.circuits.recognise import CircuitKind, LedCircuit
+from ledlint.circuits.string import SeriesString
+from ledlint.parts.kinds import LedId
 from ledlint.review.run import check
 
 
@@ -106,7 +109,8 @@ def test_only_a_change_past_three_figures_counts() -> None:
 def _fixed_diff() -> diff.NetlistDiff:
     """A diff written out by hand, so the golden files pin the layout, not the engine's figures."""
     def circuit(cid: str, kind: CircuitKind, *leds: str) -> LedCircuit:
-        return LedCircuit(id=cid, kind=kind, leds=leds)
+        made = {CircuitKind.STRING: SeriesString, CircuitKind.BANK: ResistorBank}[kind]
+        return made(cid, tuple(LedId(x) for x in leds), 0, "/")
 
     def finding(rule: str, severity: Severity, message: str, *refs: str) -> Finding:
         return Finding(rule, severity, message, "boards/panel.net", 20, refs, ("+5V", "GND"), circuit=refs[0])

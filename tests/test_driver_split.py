@@ -27,7 +27,7 @@ def spice_split(result: FileResult, point: Point) -> list[float]:
     """Branch currents from ngspice: an ideal current source into the strings, each LED a SPICE
     diode with the engine's n and R_s and IS fitted to its Vf at the test current, 25 °C."""
     a = analysis(result, "D1")
-    leds = {r.id: r.params for r in a.leds}
+    leds = {str(r.id): r.params for r in a.leds}
     vt = 1.380649e-23 * 298.15 / 1.602176634e-19  # kT/q at 25 °C (CODATA)
     lines = ["* parallel strings on one current source", ".options tnom=25 gmin=1e-12 reltol=1e-9 abstol=1e-15",
              ".temp 25", f"I1 0 top DC {point.drive!r}"]
@@ -75,7 +75,7 @@ def test_split_against_ngspice(tmp_path: Path, strings: int) -> None:
     result = run(split_board(strings), tmp_path)
     a = analysis(result, "D1")
     assert a.circuit.kind is CircuitKind.DRIVER and len(a.circuit.branches) == strings
-    per_led = {r.id: r for r in a.leds}
+    per_led = {str(r.id): r for r in a.leds}
     first = [f"D{3 * s + 1}" for s in range(strings)]  # one LED of each string carries its current
     vf = tuple(v for row in SPLIT_VF[:strings] for v in row)
     nominal = spice_split(result, Point(0.2 / 3.3, vf))

@@ -11,7 +11,8 @@ import pytest
 import board_driver
 from kicad8 import SYMBOLS, Board
 from rulecheck import of_rule, only, run_board, value
-from ledlint.analysis.board import Analysis
+from ledlint.analysis.results import Analysis
+from ledlint.analysis.setpoints import DriverKind
 from ledlint.checks.findings import Severity
 from ledlint.circuits.recognise import CircuitKind, LedCircuit
 from ledlint.review.run import FileResult, check
@@ -60,7 +61,7 @@ def run(board: Board, folder: Path, config: str = BASE_CONFIG) -> FileResult:
 
 
 def analysis(result: FileResult, led: str) -> Analysis:
-    return next(a for a in result.board.analyses if led in a.circuit.leds)
+    return next(a for a in result.board.analyses if led in map(str, a.circuit.leds))
 
 
 def circuit(result: FileResult, led: str) -> LedCircuit:
@@ -139,7 +140,7 @@ def test_sink_reference_kinds(tmp_path: Path, reference: str, refs: tuple[str, .
 
 def test_parallel_strings_on_one_sink_are_one_circuit(tmp_path: Path) -> None:
     c = circuit(run(sink_board("zener", strings=3), tmp_path), "D1")
-    assert c.kind is CircuitKind.SINK and c.leds == ("D1", "D2", "D3") and len(c.branches) == 3
+    assert c.kind is CircuitKind.SINK and tuple(map(str, c.leds)) == ("D1", "D2", "D3") and len(c.branches) == 3
     assert c.node == "/COL" and c.source.net == "+12V" and c.ret.net == "GND"
 
 
@@ -150,7 +151,7 @@ def test_driver_described_in_the_configuration(tmp_path: Path, table: str) -> No
     c = circuit(result, "D1")
     assert c.kind is CircuitKind.DRIVER and c.driver is not None
     assert c.driver.ref == "U1" and c.driver.output.name == "OUT" and c.driver.sense == ("R1",)
-    settings = {k: (t, w) for k, t, w in c.driver.settings}
+    settings = {s.key: (s.text, s.where) for s in c.driver.settings}
     assert settings["driver"][0] == "linear" and table.split(".")[0].strip("[") in settings["vref"][1]
     assert analysis(result, "D1").set_current.current.nominal == pytest.approx(0.2 / 10)  # Vref / Rsense
 
@@ -159,8 +160,8 @@ def test_driver_described_by_fields(tmp_path: Path) -> None:
     result = run(ic_board(), tmp_path)
     c = circuit(result, "D1")
     assert c.kind is CircuitKind.DRIVER and c.driver.ref == "U1" and c.driver.sense == ("R1",)
-    assert {k: w for k, _, w in c.driver.settings}["vref"] == "field vref on U1"
-    assert c.leds == ("D1", "D2") and set(c.refs) == {"D1", "D2", "U1", "R1"}
+    assert {s.key: s.where for s in c.driver.settings}["vref"] == "field vref on U1"
+    assert tuple(map(str, c.leds)) == ("D1", "D2") and set(c.refs) == {"D1", "D2", "U1", "R1"}
 
 
 def test_undescribed_driver_names_the_keys(tmp_path: Path) -> None:
@@ -280,7 +281,7 @@ def test_buck_with_high_side_sense(tmp_path: Path) -> None:
     b = buck_board(pullup=False)
     result = run(b, tmp_path, BASE_CONFIG + '[rails."+24V"]\nnominal = 24\nmin = 17.5\nmax = 26\n')
     a = analysis(result, "D1")
-    assert a.circuit.kind is CircuitKind.DRIVER and a.set_current.kind == "buck"
+    assert a.circuit.kind is CircuitKind.DRIVER and a.set_current.kind is DriverKind.BUCK
     assert a.set_current.current.nominal == pytest.approx(0.4)
     assert a.headroom_v == pytest.approx(-0.2, abs=1e-6)
     assert value(only(result, "driver-headroom"), "short").value == pytest.approx(0.2, abs=1e-6)

@@ -8,7 +8,8 @@ for the whole board. A circuit the engine cannot model fails only the analysis t
 
 from __future__ import annotations
 
-from typing import Callable, Generator, TypeVar, Union
+from collections.abc import Callable, Generator
+from typing import TypeVar, Union
 
 from ledlint.engine import Circuit, Corners, LoopGain, ModelError, corners_many, loop_gains_many
 
@@ -18,12 +19,10 @@ Answer = tuple[Corners, Union[float, None]]
 Job = Generator[list[Request], list[Answer], T]
 
 
-def solve_all(items: list[T | Job[T]], is_done: Callable[[object], bool],
-              unmodelled: Callable[[int, ModelError], T]) -> list[T]:
+def solve_all(items: list[T | Job[T]], unmodelled: Callable[[int, ModelError], T]) -> list[T]:
     """Each item finished: those already done as they are, the coroutines run to their end.
 
-    `is_done` tells a finished result from a coroutine; `unmodelled(i, error)` is what item i
-    becomes when the engine cannot model a circuit it asked for.
+    `unmodelled(i, error)` is what item i becomes when the engine cannot model a circuit it asked for.
     """
     done: dict[int, T] = {}
     waiting: dict[int, tuple[Job[T], list[Request]]] = {}
@@ -37,10 +36,10 @@ def solve_all(items: list[T | Job[T]], is_done: Callable[[object], bool],
             done[i] = unmodelled(i, exc)
 
     for i, item in enumerate(items):
-        if is_done(item):
-            done[i] = item  # type: ignore[assignment]
+        if isinstance(item, Generator):
+            advance(i, item, None)
         else:
-            advance(i, item, None)  # type: ignore[arg-type]
+            done[i] = item
     while waiting:
         batch = list(waiting.items())
         waiting.clear()
@@ -48,12 +47,15 @@ def solve_all(items: list[T | Job[T]], is_done: Callable[[object], bool],
         with_gain = list(dict.fromkeys(ec for _, (_, reqs) in batch for ec, g in reqs if g))
         gains = dict(zip(with_gain, (None if lg is None else lg.gain for lg in _loop_gains(with_gain))))
         for i, (g, reqs) in batch:
-            failed = next((cors[ec] for ec, _ in reqs if isinstance(cors[ec], ModelError)), None)
-            if isinstance(failed, ModelError):
-                done[i] = unmodelled(i, failed)
-                continue
-            advance(i, g, [(cors[ec], gains.get(ec) if want else None)  # type: ignore[misc]
-                           for ec, want in reqs])
+            answers: list[Answer] = []
+            for ec, want in reqs:
+                solved = cors[ec]
+                if isinstance(solved, ModelError):
+                    done[i] = unmodelled(i, solved)
+                    break
+                answers.append((solved, gains.get(ec) if want else None))
+            else:
+                advance(i, g, answers)
     return [done[i] for i in range(len(items))]
 
 

@@ -12,14 +12,15 @@ from functools import lru_cache
 
 import numpy as np
 
-from ledlint.analysis.board import Analysis
+from ledlint.analysis.results import Driven, VoltageDriven
+from ledlint.analysis.switching import SwitchDrive
+from ledlint.circuits.bank import ResistorBank
+from ledlint.circuits.circuit import Wired
 from ledlint.engine import Circuit, Range, corners, monte_carlo
 from ledlint.engine.corners import ballast_scan
-from ledlint.analysis.drive import VBE, SwitchDrive
+from ledlint.parts.devices import PIN_OUTPUT, VBE
 from ledlint.quantities.eseries import ESeries, nearest_above, nearest_below, series_values
 from ledlint.quantities.ratings import chip_for, derated_power
-from ledlint.circuits.recognise import CircuitKind
-from ledlint.analysis.supplies import PIN_OUTPUT
 from ledlint.quantities.units import quantity
 
 
@@ -52,22 +53,23 @@ def _required_rating(power: float, design_factor: float, ambient_max: float, upp
     return power / (design_factor * derate) if derate > 0 else float("inf")
 
 
-def _strings(analysis: Analysis) -> tuple[list[Circuit], bool]:
+def _strings(analysis: VoltageDriven) -> tuple[list[Circuit], bool]:
     """The circuits a ballast is sized for: each string on its own when the LEDs share one."""
-    if analysis.circuit.kind is CircuitKind.BANK and not analysis.circuit.individually_driven:
+    c = analysis.circuit
+    if isinstance(c, ResistorBank) and not c.individually_driven:
         ec = analysis.engine[0]
         return [replace(ec, branches=(replace(b, r=Range.fixed(0.0)),), r_series=Range.tolerance(0.0, 0.05))
                 for b in ec.branches], True
     return list(analysis.engine), False
 
 
-def ballast_fix(analysis: Analysis, current_limit: float, *, design_factor: float = 0.5,
+def ballast_fix(analysis: Driven, current_limit: float, *, design_factor: float = 0.5,
                 dead_ratio: float = 0.1, upper_category_c: float = 155.0) -> BallastFix | NoBallast | None:
     """The smallest E24 ballast that keeps every LED at or under `current_limit` in every corner; for
     LEDs sharing one resistor, the resistor each string should have instead. NoBallast when even
     then the low corner would leave under `dead_ratio` of the nominal current (the supply is too
     close to the string's Vf for any resistor). None when there is nothing to size."""
-    if not analysis.engine or analysis.set_current is not None or current_limit <= 0:
+    if not isinstance(analysis, VoltageDriven) or not analysis.engine or current_limit <= 0:
         return None
     circuits, per_string = _strings(analysis)
     sized = [_size(ec, current_limit) for ec in circuits]
@@ -128,7 +130,7 @@ class HeadroomFix:
     leds: int | None  # the most LEDs per string the present supply can take; None: no fewer will do
 
 
-def headroom_fix(analysis: Analysis, ratio: float) -> HeadroomFix | None:
+def headroom_fix(analysis: VoltageDriven, ratio: float) -> HeadroomFix | None:
     """The least nominal supply, at the present supply's tolerance, and the most LEDs per string
     on the present supply, that keep the low-corner current at `ratio` of nominal or more once
     the ballast is re-sized for the same current.
@@ -139,7 +141,8 @@ def headroom_fix(analysis: Analysis, ratio: float) -> HeadroomFix | None:
     n LEDs of s and h each, and a switch drop w, the same inequality bounds n. The LEDs' Vf
     falls with the lower current there, which only helps, so both bounds are on the safe side.
     """
-    if analysis.supply is None or analysis.headroom_v is None or not analysis.engine:
+    c = analysis.circuit
+    if analysis.supply is None or analysis.headroom_v is None or not analysis.engine or not isinstance(c, Wired):
         return None
     volts = analysis.supply.volts
     ec = analysis.engine[0]
@@ -148,9 +151,9 @@ def headroom_fix(analysis: Analysis, ratio: float) -> HeadroomFix | None:
         return None
     lo, mk = volts.minimum / volts.nominal, ratio * path.maximum / path.nominal
     by_id = {r.id: r.vf for r in analysis.leds}
-    branch = max(analysis.circuit.branches, key=lambda b: sum(by_id.get(e.id, 0.0) for e in b.leds))
+    branch = max(c.branches, key=lambda b: sum(by_id.get(e.led, 0.0) for e in b.leds))
     n, w = len(branch.leds), ec.v_switch.nominal
-    s = sum(by_id.get(e.id, 0.0) for e in branch.leds) + w
+    s = sum(by_id.get(e.led, 0.0) for e in branch.leds) + w
     h = volts.minimum - analysis.headroom_v
     if lo - mk <= 0:
         return HeadroomFix(None, None)
@@ -194,7 +197,7 @@ class BalancingFix:
     replaces: bool  # the strings already have balancing resistors: this is the value to raise them to
 
 
-def balancing_for(analysis: Analysis, limit: float, tolerance: float = 0.01) -> BalancingFix | None:
+def balancing_for(analysis: Driven, limit: float, tolerance: float = 0.01) -> BalancingFix | None:
     """The smallest E24 balancing resistance per string that brings the Monte Carlo split within
     `limit`.
 

@@ -1,4 +1,4 @@
-"""Supplies: the voltage across each end of an LED circuit, what it rests on, and safety cautions.
+"""Supplies: the voltage across each end of an LED circuit, and what it rests on.
 
 A circuit end is a rail (its voltage from the net name or the configuration), ground, a
 controller pin (its IC's supply, through the pin's output resistance) or a supply whose
@@ -12,16 +12,15 @@ from dataclasses import dataclass
 from typing import Iterable
 
 from ledlint.config import Config
-from ledlint.engine import Range
+from ledlint.quantities.ranges import Range
 from ledlint.circuits.graph import NetGraph
-from ledlint.netlist.model import Component, Netlist, Pin, PinType
-from ledlint.parts.params import PIN_RESISTANCE, Missing, rail_params
+from ledlint.netlist.model import Component, Pin, PinType
+from ledlint.parts.devices import PIN_OUTPUT
+from ledlint.parts.params import Missing, rail_params
 from ledlint.parts.kinds import Kind, classify
-from ledlint.parts.rails import is_mains_name
 from ledlint.circuits.topology import Terminal, TerminalKind
 
 SQRT2 = 2 ** 0.5  # peak over RMS of a sine
-HIGH_VOLTAGE = 60.0  # V DC: above it the usual safety caution applies (SELV limit, common practice)
 
 
 @dataclass(frozen=True)
@@ -45,8 +44,6 @@ def _supply_pins(comp: Component) -> list[Pin]:
             and (p.type is PinType.POWER_IN or re.match(r"^(V|AV|DV|IOV)(CC|DD)", p.name, re.I))]
 
 
-# A controller pin's output resistance, first order: its supply behind 40-65 Ω (field-facts §9).
-PIN_OUTPUT = Range(PIN_RESISTANCE[1], PIN_RESISTANCE[0], PIN_RESISTANCE[2])
 _NOMINAL = "its voltage, e.g. nominal = 3.3"  # an example, not a guess at this rail
 
 
@@ -73,7 +70,7 @@ def ic_supply(comp: Component, config: Config) -> IcSupply | None:
     of those."""
     found = []
     for p in _supply_pins(comp):
-        r = rail_params(p.net, config)  # type: ignore[arg-type]
+        r = rail_params(p.net, config) if p.net else None
         if r is not None and p.net and not r.ground and r.nominal > 0:
             found.append((-_supply_rank(p), r.nominal, IcSupply(Range(r.nominal, r.minimum, r.maximum), p.net,
                           f"{comp.ref} runs from {p.net} ({r.nominal:g} V, pin {p.name or p.number}; {r.detail})")))
@@ -161,34 +158,3 @@ def rail_of(graph: NetGraph, config: Config, ends: Iterable[Terminal | None]) ->
             if sup or pins:
                 return sup.net if sup else str(pins[0].net)
     return ""
-
-
-def cautions(netlist: Netlist, sources: Iterable[Terminal | None], supplies: Iterable[tuple[str, Supply | None]],
-             config: Config) -> tuple[str, ...]:
-    """Where the board shows mains or more than 60 V DC (the usual safety caution): mains net
-    names, circuits fed by a bridge rectifier, circuits and rails above 60 V."""
-    out = []
-    mains = sorted({n.name for n in netlist.nets if is_mains_name(n.name)})
-    if mains:
-        out.append(f"mains nets on the board: {', '.join(mains[:5])}")
-    bridges = sorted({t.pin.ref for t in sources if t and t.pin
-                      and classify(netlist.component(t.pin.ref) or Component("", "")) is Kind.BRIDGE})
-    if bridges:
-        out.append(f"LEDs fed by rectifier {', '.join(bridges)} (an AC input, possibly mains)")
-    # One caution for everything above the limit, each with the figure that crossed it: a rail
-    # named 58 V crosses it only at its +5 % maximum, and the reader should see why.
-    high = []
-    for n in netlist.nets:
-        r = rail_params(n.name, config)
-        if r and not r.ground and (peak := max(abs(r.maximum), abs(r.minimum))) > HIGH_VOLTAGE:
-            high.append(f"net {n.name} up to {peak:.3g} V ({r.nominal:g} V nominal)")
-    if len(high) > 5:
-        high[5:] = [f"{len(high) - 5} more such nets"]
-    circuits = sorted({cid for cid, s in supplies
-                       if s and max(abs(s.volts.maximum), abs(s.volts.minimum)) > HIGH_VOLTAGE})
-    if circuits:
-        more = f" and {len(circuits) - 5} more" if len(circuits) > 5 else ""
-        high.append(f"LED circuit{'s' if len(circuits) > 1 else ''} {', '.join(circuits[:5])}{more}")
-    if high:
-        out.append(f"above {HIGH_VOLTAGE:g} V DC: {'; '.join(high)}")
-    return tuple(out)

@@ -80,6 +80,7 @@ class Finding:
     template: str = ""
     fingerprint: str = field(default="")
     waived: str = ""  # the reason, when a waiver silences it
+    waived_in_source: bool = False  # the waiver is written on a part in the design itself
     topic: str = ""  # what the finding is about, when one rule says several things of the same parts
 
     def __post_init__(self) -> None:

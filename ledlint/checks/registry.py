@@ -12,7 +12,8 @@ from dataclasses import dataclass, field, replace
 from ledlint.frozen import FrozenMap
 from typing import Any, Callable, Iterator, Mapping
 
-from ledlint.analysis.board import Analysis, BoardAnalysis
+from ledlint.analysis.results import Analysis, BoardAnalysis
+from ledlint.circuits.circuit import CircuitKind
 from ledlint.config import SEVERITIES, Config, suggest
 from ledlint.errors import ConfigError, LedlintError
 from ledlint.checks.findings import Finding, Severity, Value, render
@@ -32,6 +33,15 @@ class Option:
 
 
 @dataclass(frozen=True)
+class OptionOf:
+    """A rule's option as another rule reads it (a margin, a design factor), so that a fix hint
+    agrees with the rule that judges the fix: one definition, one default."""
+
+    rule: str
+    option: Option
+
+
+@dataclass(frozen=True)
 class Rule:
     id: str
     summary: str
@@ -39,6 +49,7 @@ class Rule:
     check: Callable[[RuleContext], Iterator[Finding]]
     options: tuple[Option, ...] = ()
     doc: str = ""
+    kinds: tuple[CircuitKind, ...] = ()  # the circuit kinds it reads; () for every kind
 
     def option_defaults(self) -> dict[str, float]:
         return {o.name: o.default for o in self.options}
@@ -54,13 +65,15 @@ class RuleContext:
     options: Mapping[str, float] = field(default_factory=lambda: FrozenMap({}))
     all_options: Mapping[str, Mapping[str, float]] = field(default_factory=lambda: FrozenMap({}))
 
-    def option_of(self, rule_id: str, name: str, default: float) -> float:
+    def option_of(self, shared: OptionOf) -> float:
         """Another rule's option, so that hints agree with that rule (a design factor, a margin)."""
-        return self.all_options.get(rule_id, {}).get(name, default)
+        return self.all_options.get(shared.rule, {}).get(shared.option.name, shared.option.default)
 
     @property
     def analyses(self) -> tuple[Analysis, ...]:
-        return self.board.analyses
+        """The analyses of the circuits of the kinds the rule reads."""
+        kinds = self.rule.kinds
+        return tuple(a for a in self.board.analyses if not kinds or a.circuit.kind in kinds)
 
     def finding(self, analysis: Analysis, severity: Severity, template: str, *, refs: tuple[str, ...] | None = None,
                 nets: tuple[str, ...] | None = None, values: tuple[Value, ...] = (), assumed: tuple[str, ...] = (),
@@ -73,7 +86,7 @@ class RuleContext:
                        assumed=tuple(dict.fromkeys(assumed)), hint=hint, circuit=c.id, template=template, topic=topic)
 
 
-def validate(rule: Rule, where: str) -> None:
+def validate(rule: object, where: str) -> Rule:
     """A rule is well formed: a Rule, a kebab-case id, a summary and its documentation."""
     if not isinstance(rule, Rule):
         raise LedlintError(f"{where}: RULE is not a ledlint Rule")
@@ -81,6 +94,7 @@ def validate(rule: Rule, where: str) -> None:
         raise LedlintError(f"{where}: rule id {rule.id!r} is not kebab-case")
     if not rule.summary or not rule.doc:
         raise LedlintError(f"{where}: rule {rule.id} needs a summary and documentation")
+    return rule
 
 
 @dataclass(frozen=True)

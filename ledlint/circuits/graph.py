@@ -76,7 +76,8 @@ class NetGraph:
             return None  # not a pin of this part: there is no "other side"
         for node in pins:
             if node[2] != number:
-                return self.g.nodes[node]["pin"].net
+                pin: Pin = self.g.nodes[node]["pin"]
+                return pin.net
         return None
 
     def parts_on(self, net: str) -> Iterator[Component]:

@@ -18,7 +18,7 @@ from ledlint.config import Config
 from ledlint.circuits.graph import NetGraph
 from ledlint.netlist.model import Component, Pin, PinType
 from ledlint.parts.params import rail_params
-from ledlint.parts.kinds import Kind, classify, led_dies, transistor_pins
+from ledlint.parts.kinds import Kind, LedId, classify, led_dies, transistor_pins
 from ledlint.parts.rails import is_supply_name
 
 
@@ -51,7 +51,13 @@ class Element:
 
     @property
     def id(self) -> str:
+        """The part, or for an LED its die, as reports show it."""
         return f"{self.ref}:{self.die}" if self.die else self.ref
+
+    @property
+    def led(self) -> LedId:
+        """An LED element's die."""
+        return LedId(self.ref, self.die)
 
     def flipped(self) -> Element:
         return replace(self, a=self.b, b=self.a, net_a=self.net_b, net_b=self.net_a, against=not self.against)
@@ -68,11 +74,17 @@ class Segment:
     elements: tuple[Element, ...]
     top: str
     bottom: str
-    conflict: str = ""  # why the polar elements cannot all conduct, if they cannot
+    opposed: tuple[Element, ...] = ()  # polar parts (not switches) facing against the LEDs
+    swapped: tuple[Element, ...] = ()  # switches fitted with their main terminals swapped
 
     @property
     def leds(self) -> tuple[Element, ...]:
         return tuple(e for e in self.elements if e.kind is ElementKind.LED)
+
+    @property
+    def blocked(self) -> bool:
+        """The polar parts cannot all conduct: the string never lights."""
+        return bool(self.opposed or self.swapped)
 
 
 class TerminalKind(Enum):
@@ -213,6 +225,16 @@ class Topology:
                 if pin.net is not None and pin.number not in used and not pin.no_connect:
                     self.other_pins.setdefault(pin.net, []).append(pin)
         self.segments = self._chain()
+        # Indexes for the recogniser's queries, which it asks once per circuit on a large board.
+        self._at: dict[str, list[Segment]] = {}
+        for seg in self.segments:
+            for net in dict.fromkeys((seg.top, seg.bottom)):
+                self._at.setdefault(net, []).append(seg)
+        self._forward: dict[str, list[Element]] = {}
+        for e in self.elements:
+            if e.kind in (ElementKind.DIODE, ElementKind.LED):
+                self._forward.setdefault(e.net_a, []).append(e)
+        self._terminals: dict[str, Terminal] = {}
 
     def _held(self, comp: Component, e: Element) -> bool:
         """A MOSFET with its gate tied to the level that turns it on (a P-channel's to ground, an
@@ -272,6 +294,12 @@ class Topology:
 
     def terminal(self, net: str) -> Terminal:
         """What a segment-end net is to an LED circuit."""
+        found = self._terminals.get(net)
+        if found is None:
+            found = self._terminals[net] = self._terminal(net)
+        return found
+
+    def _terminal(self, net: str) -> Terminal:
         rail = rail_params(net, self.config)
         if rail is not None:
             return Terminal(net, TerminalKind.GROUND if rail.ground else TerminalKind.RAIL, detail=rail.detail)
@@ -321,7 +349,11 @@ class Topology:
 
     def segments_at(self, net: str) -> list[Segment]:
         """Segments with an end on a net (a segment with both ends there appears once)."""
-        return [s for s in self.segments if net in (s.top, s.bottom)]
+        return list(self._at.get(net, ()))
+
+    def forward_from(self, net: str) -> list[Element]:
+        """Diodes and LED dies whose anode is on a net."""
+        return list(self._forward.get(net, ()))
 
 
 def drive_pin(graph: NetGraph, pins: Iterable[Pin]) -> Pin | None:
@@ -341,21 +373,6 @@ def _orient(chain: list[Element]) -> Segment:
     guide = [e for e in chain if e.kind is ElementKind.LED] or [e for e in chain if e.polar]
     if guide and guide[0].against:
         chain = [e.flipped() for e in reversed(chain)]
-    opposed = [e.id for e in chain if e.polar and e.against and e.kind is not ElementKind.SWITCH]
-    reasons = [REVERSED_SWITCH[e.part].format(ref=e.ref) for e in chain
-               if e.kind is ElementKind.SWITCH and e.against and not e.held]
-    if opposed:
-        verb = "faces" if len(opposed) == 1 else "face"
-        reasons.insert(0, f"{', '.join(opposed)} {verb} against the other parts in series with it")
-    return Segment(tuple(chain), chain[0].net_a, chain[-1].net_b, "; ".join(reasons))
-
-
-# A transistor fitted with its main terminals swapped, against the LEDs' current (common practice;
-# a MOSFET's body diode runs from source to drain in an N-channel part, drain to source in a
-# P-channel one, so swapped, it is forward-biased by the LEDs' own supply).
-_SWAPPED_MOSFET = ("{ref} has drain and source swapped: its body diode conducts whatever its gate does, so it "
-                   "cannot turn the LEDs off")
-_SWAPPED_BIPOLAR = ("{ref} has collector and emitter swapped: run in reverse it barely switches (a current gain "
-                    "of a few) and its base-emitter junction breaks down at about 6 V")
-REVERSED_SWITCH = {Kind.NMOS: _SWAPPED_MOSFET, Kind.PMOS: _SWAPPED_MOSFET,
-                   Kind.NPN: _SWAPPED_BIPOLAR, Kind.PNP: _SWAPPED_BIPOLAR}
+    opposed = tuple(e for e in chain if e.polar and e.against and e.kind is not ElementKind.SWITCH)
+    swapped = tuple(e for e in chain if e.kind is ElementKind.SWITCH and e.against and not e.held)
+    return Segment(tuple(chain), chain[0].net_a, chain[-1].net_b, opposed, swapped)

@@ -146,11 +146,11 @@ class Corners:
     @property
     def led_current_max(self) -> Array:
         """Each LED's largest current over all corners, (L,)."""
-        return self.solution.led_current.max(axis=0)
+        return np.asarray(self.solution.led_current.max(axis=0))
 
     @property
     def led_current_min(self) -> Array:
-        return self.solution.led_current.min(axis=0)
+        return np.asarray(self.solution.led_current.min(axis=0))
 
     @property
     def ballast_power_max(self) -> float:

@@ -113,7 +113,7 @@ class Junctions:
         """
         i = np.asarray(current, dtype=float)
         with np.errstate(divide="ignore", over="ignore"):
-            vj = np.minimum(
+            vj: Array = np.minimum(
                 self.a * np.log1p(np.maximum(i, 0.0) / self.i_s), (i + self.i_s) / GMIN
             )
         for _ in range(_INVERSE_STEPS):
@@ -126,7 +126,8 @@ class Junctions:
     def terminal_voltage(self, current: ArrayLike) -> Array:
         """LED voltage (junction plus series resistance) at ``current``."""
         i = np.asarray(current, dtype=float)
-        return self.voltage(i) + self.r_s * i
+        out: Array = self.voltage(i) + self.r_s * i
+        return out
 
     def vf_slope(self, vj: ArrayLike) -> Array:
         """dVf/dT at constant current, V/K, at junction voltage ``vj`` (module docstring)."""

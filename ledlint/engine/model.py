@@ -2,63 +2,15 @@
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass
 
 from ledlint.engine.constants import ZERO_CELSIUS, thermal_voltage
-from ledlint.errors import LedlintError
+from ledlint.quantities.ranges import ModelError, Range, finite as _finite
+
+__all__ = ["Branch", "Circuit", "DATASHEET_TEMPERATURE", "LedSpec", "ModelError", "Range"]
 
 # Datasheets give Vf at 25 °C; this is also the SPICE TNOM the engine's decks use.
 DATASHEET_TEMPERATURE = 25.0
-
-
-class ModelError(LedlintError, ValueError):
-    """A circuit description the engine cannot model (a negative resistance, no LEDs, ...)."""
-
-
-def _finite(name: str, value: float) -> float:
-    if not isinstance(value, (int, float)) or not math.isfinite(value):
-        raise ModelError(f"{name} must be a finite number, got {value!r}")
-    return float(value)
-
-
-@dataclass(frozen=True)
-class Range:
-    """A parameter over its tolerance: nominal value and the extremes it can take."""
-
-    nominal: float
-    minimum: float
-    maximum: float
-
-    def __post_init__(self) -> None:
-        for name in ("nominal", "minimum", "maximum"):
-            _finite(f"range {name}", getattr(self, name))
-        if not self.minimum <= self.nominal <= self.maximum:
-            raise ModelError(
-                f"range needs minimum <= nominal <= maximum, got "
-                f"{self.minimum!r} <= {self.nominal!r} <= {self.maximum!r}"
-            )
-
-    @classmethod
-    def fixed(cls, x: float) -> Range:
-        return cls(x, x, x)
-
-    @classmethod
-    def tolerance(cls, nominal: float, rel: float) -> Range:
-        """``nominal`` ± ``rel`` (a fraction, 0.05 for ±5 %); works for negative values too."""
-        rel = _finite("tolerance", rel)
-        if rel < 0:
-            raise ModelError(f"tolerance must not be negative, got {rel!r}")
-        spread = abs(_finite("nominal", nominal)) * rel
-        return cls(nominal, nominal - spread, nominal + spread)
-
-    def __add__(self, other: Range) -> Range:
-        """Interval sum: the extremes add."""
-        return Range(self.nominal + other.nominal, self.minimum + other.minimum, self.maximum + other.maximum)
-
-    def __sub__(self, other: Range) -> Range:
-        """Interval difference: least minus most, most minus least."""
-        return Range(self.nominal - other.nominal, self.minimum - other.maximum, self.maximum - other.minimum)
 
 
 def _non_negative(name: str, r: Range) -> None:

@@ -119,9 +119,9 @@ class Cases:
         )
 
     def replace(self, **changes: ArrayLike) -> Cases:
-        values = {f.name: getattr(self, f.name) for f in fields(self)}
+        values: dict[str, Any] = {f.name: getattr(self, f.name) for f in fields(self)}
         values.update(changes)
-        return Cases(**values)  # type: ignore[arg-type]
+        return Cases(**values)
 
     def take(self, index: ArrayLike) -> Cases:
         """The cases at ``index`` (an integer array or a boolean mask)."""
@@ -493,7 +493,7 @@ def solve(circuit: Circuit, cases: Cases) -> Solution:
     return Solution.of(setup, cases, solve_state(setup, cases, jn), cases.tj)
 
 
-def shape_key(circuit: Circuit) -> tuple:
+def shape_key(circuit: Circuit) -> tuple[object, ...]:
     """Circuits with equal keys differ only in what the cases carry: they can share one solve."""
     return (tuple(len(b.leds) for b in circuit.branches), circuit.current_driven, circuit.r_source,
             tuple((d.i_test, d.n, d.r_s, d.tc, d.xti, d.t_test, d.rth or 0.0) for d in circuit.leds))
@@ -501,7 +501,7 @@ def shape_key(circuit: Circuit) -> tuple:
 
 def groups(circuits: Sequence[Circuit]) -> list[list[Circuit]]:
     """The distinct circuits, grouped by shape."""
-    by_shape: dict[tuple, list[Circuit]] = {}
+    by_shape: dict[tuple[object, ...], list[Circuit]] = {}
     for c in dict.fromkeys(circuits):
         by_shape.setdefault(shape_key(c), []).append(c)
     return list(by_shape.values())

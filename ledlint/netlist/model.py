@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import re
 from dataclasses import dataclass, field
 from enum import Enum
 from ledlint.frozen import FrozenMap
@@ -41,6 +42,14 @@ _PIN_TYPE_SPELLINGS = {t.value: t for t in PinType} | {
     "unconnected": PinType.NO_CONNECT,
 }
 
+
+
+_DIGITS = re.compile(r"(\d+)")
+
+
+def natural(text: str) -> tuple[int | str, ...]:
+    """A sort key for references and pin numbers that puts D2 before D10."""
+    return tuple(int(p) if p.isdigit() else p for p in _DIGITS.split(text))
 
 
 def _empty() -> Mapping[str, Any]:

@@ -12,7 +12,7 @@ from dataclasses import dataclass
 from enum import Enum
 from typing import Iterable
 
-from ledlint.netlist.model import Component, Pin
+from ledlint.netlist.model import Component, Pin, natural
 
 
 class Kind(Enum):
@@ -43,6 +43,27 @@ class Die:
     name: str  # "" for a single-die LED, else e.g. "R", "G", "1"
     anode: str
     cathode: str
+
+
+@dataclass(frozen=True)
+class LedId:
+    """One light-emitting die: its part and the die's name in the package ("" for a one-die LED).
+    Shown as "D4" or "D4:R"; a reference may hold any character, so the two are never split
+    back out of the text."""
+
+    ref: str
+    die: str = ""
+
+    def __str__(self) -> str:
+        return f"{self.ref}:{self.die}" if self.die else self.ref
+
+    def __format__(self, spec: str) -> str:
+        return format(str(self), spec)
+
+    @property
+    def order(self) -> tuple[int | str, ...]:
+        """Natural order of the text shown: D2 before D10, D1:B before D1:G."""
+        return natural(str(self))
 
 
 # Two-terminal current regulators, whatever their symbol looks like (common practice names).

@@ -12,10 +12,12 @@ from enum import Enum
 from typing import Callable
 
 from ledlint.config import Config, plausible
+from ledlint.parts.devices import PIN_LIMIT
 from ledlint.parts.leds import (AMBIGUOUS_GREEN, INDICATOR_IF_MAX, INDICATOR_RTH, SPREAD, TECHNOLOGIES, TEST_CURRENT,
                               VR_MAX, Technology, colour_from_text, die_colour, is_indicator_footprint,
                               series_resistance)
 from ledlint.netlist.model import Component
+from ledlint.parts.kinds import LedId
 from ledlint.parts.rails import RailKind, rail_from_net_name
 from ledlint.quantities.ratings import rating_from_footprint
 from ledlint.quantities.units import (Quantity, Unknown, parse_current, parse_power, parse_resistance, parse_temperature, quantity,
@@ -58,6 +60,7 @@ class Missing:
     name: str
     reason: str
     fix: str
+    fault: bool = False  # not a gap but a fault on the board (a 0 Ω sense resistor sets no current)
 
 
 def known(p: Param | Missing) -> float:
@@ -198,8 +201,8 @@ class LedParams:
     curve: tuple[tuple[float, float], ...] = ()  # (A, V) datasheet points when Vf gives several
 
     @property
-    def id(self) -> str:
-        return f"{self.ref}:{self.die}" if self.die else self.ref
+    def id(self) -> LedId:
+        return LedId(self.ref, self.die)
 
     @property
     def blocking(self) -> tuple[Missing, ...]:
@@ -364,14 +367,6 @@ def rail_params(net: str, config: Config) -> RailParams | None:
         return None
     return RailParams(net, rail.nominal, rail.minimum, rail.maximum, Origin.NET_NAME, rail.source,
                       ground=rail.kind is RailKind.GROUND, ac=rail.kind is RailKind.AC)
-
-
-# A controller pin's continuous current, when its datasheet is not given (common practice;
-# typical GPIO ratings are 8-25 mA, field-facts §9).
-PIN_LIMIT = 0.020
-# Output resistance of a GPIO pin driving an LED: ≈ 40-45 Ω for a 5 V 8-bit controller at 20 mA and
-# ≈ 65 Ω worst case for a 3.3 V 32-bit one at 20 mA (field-facts §9, derived there; common practice).
-PIN_RESISTANCE = (40.0, 50.0, 65.0)
 
 
 def pin_limit(component: Component, config: Config) -> Param:

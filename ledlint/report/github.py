@@ -40,9 +40,9 @@ def render(result: RunResult) -> str:
     lines = [annotation(f) for f in result.findings]
     for fr in result.files:
         lines += [command("warning", f"{c}. {SAFETY}", file=posix_path(fr.path), title="ledlint caution")
-                  for c in fr.board.cautions]
+                  for c in fr.summary.cautions]
         lines += [command("notice", f"reader note: {n.message}", file=posix_path(fr.path), line=n.line,
-                          col=n.column, title="ledlint reader") for n in fr.netlist.notes]
+                          col=n.column, title="ledlint reader") for n in fr.summary.notes]
     lines += [command("warning", unused_waiver(w), title="ledlint waiver") for w in result.unused_waivers]
     lines += [command("warning", f"unused setting {s}", title="ledlint configuration") for s in result.unused_settings]
     lines.append("ledlint: " + summary(result))

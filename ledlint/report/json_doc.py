@@ -7,8 +7,8 @@ from typing import Any
 
 from ledlint import __version__
 from ledlint.checks.findings import Finding
-from ledlint.parts.kinds import led_parts
-from ledlint.analysis.summary import row
+from ledlint.report import circuit_note
+from ledlint.analysis.summary import CircuitRow
 from ledlint.review.diff import NetlistDiff, Reading
 from ledlint.review.run import RunResult
 
@@ -29,30 +29,40 @@ def finding_json(f: Finding) -> dict[str, Any]:
     return out
 
 
+def row_json(r: CircuitRow) -> dict[str, object]:
+    return {
+        "file": r.file, "id": r.id, "kind": r.kind, "leds": list(r.leds),
+        "ballast": list(r.ballast), "supply_net": r.supply_net, "return_net": r.return_net,
+        "rail": r.rail,
+        "current_a": (None if r.current is None else
+                      {"nominal": r.current[0], "min": r.current[1], "max": r.current[2]}),
+        "resistor_power_w": r.resistor_power_w, "headroom_v": r.headroom_v,
+        "analysed": r.analysed, "note": circuit_note(r),
+    }
+
+
 def document(result: RunResult) -> dict[str, Any]:
     files = []
     for r in result.files:
-        n = r.netlist
+        s = r.summary
         files.append({
-            "path": r.path, "version": n.version, "tool": n.tool, "components": len(n.components),
-            "nets": len(n.nets),
-            "leds": led_parts(n.components),
-            "circuits": len(r.board.circuits), "config": r.config_path or None,
-            "notes": [{"line": x.line, "column": x.column, "message": x.message} for x in n.notes],
-            "cautions": list(r.board.cautions),
+            "path": r.path, "version": s.version, "tool": s.tool, "components": s.components, "nets": s.nets,
+            "leds": s.leds, "circuits": s.circuits, "config": r.config_path or None,
+            "notes": [{"line": x.line, "column": x.column, "message": x.message} for x in s.notes],
+            "cautions": list(s.cautions),
         })
     return {
         "schema": SCHEMA,
         "tool": {"name": "ledlint", "version": __version__},
         "summary": result.counts() | {"files": len(result.files),
-                                      "circuits": sum(len(r.board.circuits) for r in result.files)},
+                                      "circuits": sum(r.summary.circuits for r in result.files)},
         "files": files,
         "findings": [finding_json(f) for f in result.findings],
         "waived": [finding_json(f) for r in result.files for f in r.waived],
         "unused_waivers": [{"rule": w.rule, "ref": w.ref or None, "fingerprint": w.fingerprint or None,
                             "reason": w.reason, "origin": w.origin} for w in result.unused_waivers],
         "unused_settings": list(result.unused_settings),
-        "circuits": [row(r.path, a).as_json() for r in result.files for a in r.board.analyses],
+        "circuits": [row_json(c) for r in result.files for c in r.summary.rows],
     }
 
 

@@ -19,8 +19,8 @@ def unused_waiver(w: Waiver) -> str:
 def summary(result: RunResult) -> str:
     """One line for the whole run: files, circuits, findings by severity, waived."""
     counts = result.counts()
-    circuits = sum(len(fr.board.circuits) for fr in result.files)
-    analysed = sum(a.solved for fr in result.files for a in fr.board.analyses)
+    circuits = sum(fr.summary.circuits for fr in result.files)
+    analysed = sum(fr.summary.analysed for fr in result.files)
     waived = sum(len(fr.waived) for fr in result.files)
     return (f"{len(result.files)} file(s) · {circuits} circuit(s), {analysed} analysed · "
             f"{counts['error']} error(s) · {counts['warning']} warning(s) · {counts['info']} info"
@@ -54,8 +54,8 @@ def render(result: RunResult) -> str:
     notes = [f"- {cell(unused_waiver(w))}" for w in result.unused_waivers]
     notes += [f"- unused setting {cell(s)}" for s in result.unused_settings]
     for fr in result.files:
-        notes += [f"- **caution** `{cell(posix_path(fr.path))}`: {cell(c)}. {SAFETY}" for c in fr.board.cautions]
-        notes += [f"- reader note `{cell(posix_path(fr.path))}:{n.line}`: {cell(n.message)}" for n in fr.netlist.notes]
+        notes += [f"- **caution** `{cell(posix_path(fr.path))}`: {cell(c)}. {SAFETY}" for c in fr.summary.cautions]
+        notes += [f"- reader note `{cell(posix_path(fr.path))}:{n.line}`: {cell(n.message)}" for n in fr.summary.notes]
     if notes:
         out += ["", *notes]
     return "\n".join(out) + "\n"

@@ -10,13 +10,13 @@ from urllib.parse import quote
 
 from ledlint import __version__
 from ledlint.checks.findings import Finding, Severity
-from ledlint.netlist.model import Netlist
+from ledlint.analysis.summary import BoardSummary
 from ledlint.checks.registry import DOC_SECTIONS, Rule, rule_doc
 from ledlint.report.json_doc import finding_json
 from ledlint.paths import posix_path
 from ledlint.report.markdown import unused_waiver
 from ledlint.report import SAFETY
-from ledlint.review.run import FileResult, RunResult, field_waivers
+from ledlint.review.run import FileResult, RunResult
 
 SARIF_VERSION = "2.1.0"
 SARIF_SCHEMA = "https://docs.oasis-open.org/sarif/sarif/v2.1.0/errata01/os/schemas/sarif-schema-2.1.0.json"
@@ -84,23 +84,17 @@ def _physical(uri: str, line: int) -> dict[str, Any]:
     return out
 
 
-def _related(f: Finding, netlist: Netlist, uri: str) -> list[dict[str, Any]]:
+def _related(f: Finding, board: BoardSummary, uri: str) -> list[dict[str, Any]]:
     out: list[dict[str, Any]] = []
     for ref in dict.fromkeys(f.refs):
-        comp = netlist.component(ref)
-        if comp is not None and comp.line > 0:
-            out.append({"id": len(out) + 1, "physicalLocation": _physical(uri, comp.line),
-                        "message": {"text": f"{ref} ({comp.value})" if comp.value else ref}})
+        part = board.part(ref)
+        if part is not None and part.line > 0:
+            out.append({"id": len(out) + 1, "physicalLocation": _physical(uri, part.line),
+                        "message": {"text": f"{ref} ({part.value})" if part.value else ref}})
     return out
 
 
-def _in_source(f: Finding, fr: FileResult, rule_ids: set[str]) -> bool:
-    """Whether the waiver that silenced `f` is written on a part in the netlist itself."""
-    return any(w.rule == f.rule and w.ref in f.refs and w.reason == f.waived
-               for w in field_waivers(fr.netlist, rule_ids))
-
-
-def _result(f: Finding, fr: FileResult, index: dict[str, int], uri: str, rule_ids: set[str]) -> dict[str, Any]:
+def _result(f: Finding, fr: FileResult, index: dict[str, int], uri: str) -> dict[str, Any]:
     props = finding_json(f)
     out: dict[str, Any] = {
         "ruleId": f.rule,
@@ -112,11 +106,11 @@ def _result(f: Finding, fr: FileResult, index: dict[str, int], uri: str, rule_id
     }
     if f.rule in index:
         out["ruleIndex"] = index[f.rule]
-    related = _related(f, fr.netlist, uri)
+    related = _related(f, fr.summary, uri)
     if related:
         out["relatedLocations"] = related
     if f.waived:
-        out["suppressions"] = [{"kind": "inSource" if _in_source(f, fr, rule_ids) else "external",
+        out["suppressions"] = [{"kind": "inSource" if f.waived_in_source else "external",
                                 "status": "accepted", "justification": f.waived}]
     return out
 
@@ -126,8 +120,8 @@ def _notifications(result: RunResult, start: str | Path | None) -> list[dict[str
     for fr in result.files:
         out += [{"level": "warning", "message": {"text": f"caution: {c}. {SAFETY}"},
                  "locations": [{"physicalLocation": _physical(artifact_uri(fr.path, start), 0)}]}
-                for c in fr.board.cautions]
-        for note in fr.netlist.notes:
+                for c in fr.summary.cautions]
+        for note in fr.summary.notes:
             location = _physical(artifact_uri(fr.path, start), note.line)
             if "region" in location and note.column > 0:
                 location["region"]["startColumn"] = note.column
@@ -142,11 +136,10 @@ def _notifications(result: RunResult, start: str | Path | None) -> list[dict[str
 def document(result: RunResult, start: str | Path | None = None) -> dict[str, Any]:
     """The SARIF log as a mapping; artifact paths relative to `start` (default: the working folder)."""
     index = {r.id: i for i, r in enumerate(result.rules)}
-    rule_ids = set(index)
     results = []
     for fr in result.files:
         uri = artifact_uri(fr.path, start)
-        results += [_result(f, fr, index, uri, rule_ids) for f in (*fr.findings, *fr.waived)]
+        results += [_result(f, fr, index, uri) for f in (*fr.findings, *fr.waived)]
     return {
         "$schema": SARIF_SCHEMA,
         "version": SARIF_VERSION,

@@ -10,10 +10,8 @@ from rich.markup import escape
 from rich.table import Table
 
 from ledlint.checks.findings import Finding, Severity, quantity
-from ledlint.parts.kinds import led_parts
-from ledlint.report import SAFETY, printable, refs_text
-from ledlint.circuits.recognise import CircuitKind
-from ledlint.analysis.summary import CircuitRow, row
+from ledlint.report import SAFETY, circuit_note, printable, refs_text
+from ledlint.analysis.summary import BoardSummary, CircuitRow
 from ledlint.paths import posix_path
 from ledlint.review.diff import NetlistDiff, Status
 from ledlint.review.run import FileResult, RunResult
@@ -54,10 +52,6 @@ def _finding(f: Finding, width: int) -> list[str]:
     return lines
 
 
-# Circuit kinds that are never analysed electrically, named as they are in the table.
-_NOT_RUN = (CircuitKind.ADDRESSABLE, CircuitKind.MULTIPLEXED, CircuitKind.NOT_FITTED, CircuitKind.UNRECOGNISED)
-
-
 def _amps(x: float | None) -> str:
     return "—" if x is None else quantity(x, "A")
 
@@ -73,7 +67,8 @@ def _circuit_table(rows: list[CircuitRow]) -> Table:
     for r in rows:
         leds = ", ".join(r.leds) if len(r.leds) <= 3 else f"{r.leds[0]} … ({len(r.leds)})"
         if r.current is None:
-            nom, rng = "—", escape(_short(r.note)) if r.note else "—"
+            note = circuit_note(r)
+            nom, rng = "—", escape(_short(note)) if note else "—"
         else:
             nom, rng = _amps(r.current[0]), f"{_amps(r.current[1])} – {_amps(r.current[2])}"
         ends = f"{r.supply_net or (f'rail {r.rail}' if r.rail else '?')} → {r.return_net or '?'}"
@@ -84,17 +79,10 @@ def _circuit_table(rows: list[CircuitRow]) -> Table:
     return table
 
 
-def _coverage(fr: FileResult) -> str:
+def _coverage(s: BoardSummary) -> str:
     """How many circuits were analysed, and why the others were not: a skipped circuit must not
     read as a passed one."""
-    skipped: dict[str, int] = {}
-    for a in fr.board.analyses:
-        if not a.solved:
-            kind = a.circuit.kind
-            why = kind.value if kind in _NOT_RUN else "missing a value"
-            skipped[why] = skipped.get(why, 0) + 1
-    analysed = len(fr.board.analyses) - sum(skipped.values())
-    return ", ".join([f"{analysed} analysed"] + [f"{k} {why}" for why, k in sorted(skipped.items())])
+    return ", ".join([f"{s.analysed} analysed"] + [f"{k} {why}" for why, k in s.skipped])
 
 
 def _print_wide(console: Console, table: Table) -> None:
@@ -109,13 +97,12 @@ def _print_wide(console: Console, table: Table) -> None:
 
 
 def _file(console: Console, fr: FileResult, circuits: bool) -> None:
-    n = fr.netlist
-    parts, dies = led_parts(n.components), sum(len(c.leds) for c in fr.board.circuits)
-    leds = f"{parts} LED(s)" + (f" ({dies} dies)" if dies > parts else "")
-    console.print(f"[bold]{escape(printable(fr.path))}[/]  {len(n.components)} parts, {len(n.nets)} nets, "
-                  f"{leds} in {len(fr.board.circuits)} circuit(s), "
-                  f"{_coverage(fr)} · {escape(printable(n.tool or 'unknown tool'))}", soft_wrap=True)
-    for note in n.notes:
+    s = fr.summary
+    leds = f"{s.leds} LED(s)" + (f" ({s.dies} dies)" if s.dies > s.leds else "")
+    console.print(f"[bold]{escape(printable(fr.path))}[/]  {s.components} parts, {s.nets} nets, "
+                  f"{leds} in {s.circuits} circuit(s), "
+                  f"{_coverage(s)} · {escape(printable(s.tool or 'unknown tool'))}", soft_wrap=True)
+    for note in s.notes:
         console.print(f"  [dim]reader note, line {note.line}: {escape(printable(note.message))}[/]")
     if fr.findings:
         console.print("\n".join(line for f in fr.findings for line in _finding(f, console.width)), soft_wrap=True)
@@ -123,9 +110,9 @@ def _file(console: Console, fr: FileResult, circuits: bool) -> None:
         console.print(f"  [dim]{len(fr.waived)} finding(s) waived[/]")
     if not fr.findings:
         console.print("  no findings")
-    if circuits and fr.board.analyses:
-        _print_wide(console, _circuit_table([row(fr.path, a) for a in fr.board.analyses]))
-    for c in fr.board.cautions:
+    if circuits and s.rows:
+        _print_wide(console, _circuit_table(list(s.rows)))
+    for c in s.cautions:
         console.print(f"[bold red]CAUTION[/] {escape(printable(c))}. {SAFETY}")
     console.print()
 
@@ -142,8 +129,8 @@ def render(result: RunResult, *, circuits: bool = False, color: bool = False, wi
     for s in result.unused_settings:
         console.print(f"[yellow]unused setting[/] {escape(s)}")
     counts = result.counts()
-    total = sum(len(fr.board.circuits) for fr in result.files)
-    analysed = sum(a.solved for fr in result.files for a in fr.board.analyses)
+    total = sum(fr.summary.circuits for fr in result.files)
+    analysed = sum(fr.summary.analysed for fr in result.files)
     console.print(f"{len(result.files)} file(s) · {total} circuit(s), {analysed} analysed · "
                   f"{counts['error']} error(s) · {counts['warning']} warning(s) · {counts['info']} info")
     return "".join(line.rstrip() + "\n" for line in buf.getvalue().splitlines())  # no padding at line ends

@@ -8,10 +8,11 @@ from enum import Enum
 from pathlib import Path
 from collections.abc import Iterable
 
-from ledlint.analysis.board import Analysis
+from ledlint.analysis.results import Analysis, Computed, Driven, VoltageDriven
+from ledlint.circuits.string import SeriesString
 from ledlint.checks.findings import Finding
 from ledlint.netlist.model import Component
-from ledlint.circuits.recognise import LedCircuit
+from ledlint.circuits.circuit import LedCircuit
 from ledlint.review.run import FileResult, check
 from ledlint.quantities.units import quantity
 
@@ -188,23 +189,26 @@ class NetlistDiff:
 
 
 def _leds(c: LedCircuit | None) -> tuple[str, ...]:
-    return tuple(dict.fromkeys(i.split(":")[0] for i in c.leds)) if c else ()
+    return c.led_refs if c else ()
 
 
 def readings(a: Analysis) -> dict[tuple[Quantity, str], Reading]:
     """The figures a reviewer follows for one circuit, keyed by what they measure."""
     out: dict[tuple[Quantity, str], Reading] = {}
-    if not a.solved:
+    if not isinstance(a, Computed):
         return out
-    if a.reversed or (a.circuit.blocked and not a.circuit.reversed_switches):
+    c = a.circuit
+    blocked = isinstance(c, SeriesString) and c.blocked
+    if a.reversed or (isinstance(c, SeriesString) and blocked and not c.reversed_switches):
         # Reversed, or a string that never conducts: leakage only, so its LEDs read 0 A.
-        return {(Quantity.CURRENT, led.id): Reading(0.0) for led in a.leds}
-    if not a.circuit.blocked:
+        return {(Quantity.CURRENT, str(led.id)): Reading(0.0) for led in a.leds}
+    if not blocked:
         for led in a.leds:
-            out[(Quantity.CURRENT, led.id)] = Reading(led.current.nominal, led.current.minimum, led.current.maximum)
+            out[(Quantity.CURRENT, str(led.id))] = Reading(led.current.nominal, led.current.minimum,
+                                                           led.current.maximum)
     for r in a.resistors:
         out[(Quantity.DISSIPATION, r.ref)] = Reading(r.power_max)
-    if a.headroom_v is not None:
+    if isinstance(a, Driven) and a.headroom_v is not None:
         out[(Quantity.HEADROOM, "")] = Reading(a.headroom_v)
     return out
 
@@ -275,7 +279,7 @@ def compare(old: FileResult, new: FileResult) -> NetlistDiff:
         return tuple(o.id for o in side if set(_leds(o)) & set(_leds(c)))
 
     def driving(a: Analysis | None) -> list[str]:
-        return [r for d in (a.drives if a else ()) for r in (d.resistor, d.pin.ref) if r]
+        return [r for d in (a.drives if isinstance(a, VoltageDriven) else ()) for r in (d.resistor, d.pin.ref) if r]
 
     def parts_edited(before: LedCircuit, after: LedCircuit) -> tuple[Edit, ...]:
         # The circuit's own parts and what drives its switches (a base or gate resistor).

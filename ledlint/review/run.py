@@ -5,7 +5,6 @@ from __future__ import annotations
 import gc
 import importlib
 import os
-import pkgutil
 from concurrent.futures import ProcessPoolExecutor
 from dataclasses import dataclass, replace
 from importlib.metadata import entry_points
@@ -14,7 +13,9 @@ from contextlib import contextmanager
 from typing import Callable, Iterable, Iterator, Sequence
 
 from ledlint import config as configuration
-from ledlint.analysis.board import BoardAnalysis, analyse
+from ledlint.analysis.board import analyse
+from ledlint.analysis.results import BoardAnalysis
+from ledlint.analysis.summary import BoardSummary, summarise
 from ledlint.config import WAIVER_FIELD, Config, Waiver
 from ledlint.errors import ConfigError, LedlintError
 from ledlint.checks.findings import Finding, Severity
@@ -36,6 +37,7 @@ class FileResult:
     findings: tuple[Finding, ...]  # active, most severe first
     waived: tuple[Finding, ...]  # silenced by a waiver, with its reason
     config_path: str
+    summary: BoardSummary  # what the reports show of the board
 
 
 @dataclass(frozen=True)
@@ -67,17 +69,16 @@ def load_rules(include_plugins: bool = True) -> tuple[Rule, ...]:
     found: dict[str, str] = {}
     rules: list[Rule] = []
 
-    def add(rule: Rule, where: str) -> None:
-        validate(rule, where)
+    def add(candidate: object, where: str) -> None:
+        rule = validate(candidate, where)
         if rule.id in found:
             raise LedlintError(f"{where}: rule id {rule.id!r} is already defined by {found[rule.id]}")
         found[rule.id] = where
         rules.append(rule)
 
-    for mod in sorted(pkgutil.iter_modules(builtin_rules.__path__), key=lambda m: m.name):
-        module = importlib.import_module(f"{builtin_rules.__name__}.{mod.name}")
-        if hasattr(module, "RULE"):
-            add(module.RULE, module.__name__)
+    for name in builtin_rules.BUILTIN:
+        module = importlib.import_module(f"{builtin_rules.__name__}.{name}")
+        add(getattr(module, "RULE", None), module.__name__)
     if include_plugins:
         for ep in sorted(entry_points(group=ENTRY_POINT_GROUP), key=lambda e: e.name):
             add(ep.load(), f"entry point {ep.name} ({ep.value})")
@@ -99,7 +100,8 @@ def field_waivers(netlist: Netlist, rule_ids: set[str]) -> list[Waiver]:
             if rid not in rule_ids:
                 raise ConfigError(f"{where}: no rule {rid!r}{configuration.suggest(rid, sorted(rule_ids))}",
                                   netlist.path, comp.line)
-            out.append(Waiver(rid, reason.strip(), ref=comp.ref, origin=f"{where} ({netlist.path}, line {comp.line})"))
+            out.append(Waiver(rid, reason.strip(), ref=comp.ref, origin=f"{where} ({netlist.path}, line {comp.line})",
+                              in_source=True))
     return out
 
 
@@ -117,7 +119,7 @@ def apply_waivers(findings: list[Finding], waivers: list[Waiver]) -> tuple[list[
             active.append(f)
         else:
             used.add(hit)
-            waived.append(replace(f, waived=waivers[hit].reason))
+            waived.append(replace(f, waived=waivers[hit].reason, waived_in_source=waivers[hit].in_source))
     return active, waived, used
 
 
@@ -157,8 +159,8 @@ def _check_file(job: _Job) -> tuple[FileResult, list[Waiver], set[int]]:
     active, waived, used = apply_waivers(findings, waivers)
     unused_own = [w for i, w in enumerate(waivers) if i >= len(job.config.waivers) and i not in used]
     used_config = {i for i in used if i < len(job.config.waivers)}
-    return (FileResult(job.path, netlist, board, tuple(active), tuple(waived), job.config.path),
-            unused_own, used_config)
+    return (FileResult(job.path, netlist, board, tuple(active), tuple(waived), job.config.path,
+                       summarise(job.path, board)), unused_own, used_config)
 
 
 def check(paths: Sequence[str | Path], *, config_path: str | None = None,
