@@ -12,7 +12,7 @@ import pytest
 from ledlint.report import json_doc, markdown
 from ledlint.report import text as text_report
 from ledlint.review import diff
-from ledlint.review.diff import Moved, Quantity, Status
+from ledlint.review.diff import Moved, Measure, Status
 from ledlint.checks.findings import Finding, Severity
 from ledlint.circuits.bank import ResistorBank
 from ledlint.circuits.recognise import CircuitKind, LedCircuit
@@ -50,7 +50,7 @@ def test_circuits_are_matched_by_their_leds(a_to_b) -> None:
 
 def test_moved_figures_agree_with_ohms_and_joules_laws(a_to_b) -> None:
     d1 = {(m.quantity, m.subject): m for m in _by_id(a_to_b)["D1"].moved}
-    current = d1[(Quantity.CURRENT, "D1")]
+    current = d1[(Measure.CURRENT, "D1")]
     # Ohm's law (handbook): (12 V − Vf) / 510 Ω with the field's Vf = 2.0 V at 20 mA; the LED
     # runs just under 20 mA, so its Vf is a little lower and the current a little higher.
     ohm = (12.0 - 2.0) / 510
@@ -58,24 +58,24 @@ def test_moved_figures_agree_with_ohms_and_joules_laws(a_to_b) -> None:
     # Before, 47 Ω: the current is less than (12 − 2.0) / 47 because Vf rises with current
     # (Shockley diode equation with series resistance, field-facts §5c).
     assert 0.1 < current.old.value < (12.0 - 2.0) / 47
-    power = d1[(Quantity.DISSIPATION, "R1")]
+    power = d1[(Measure.DISSIPATION, "R1")]
     # Joule's law P = I²R at the worst corner (highest current, lowest resistance: 510 Ω − 5 %,
     # the tolerance the tool states it assumed for R1).
     assert power.new.value == pytest.approx(current.new.high ** 2 * 510 * 0.95, rel=0.005)
     assert power.old.value == pytest.approx(current.old.high ** 2 * 47 * 0.95, rel=0.005)
-    assert d1[(Quantity.HEADROOM, "")].new.value > d1[(Quantity.HEADROOM, "")].old.value
+    assert d1[(Measure.HEADROOM, "")].new.value > d1[(Measure.HEADROOM, "")].old.value
 
 
 def test_figures_come_from_the_analysis(a_to_b, panel_files) -> None:
     new = check([panel_files["B"]]).files[0].board
     d5 = next(a for a in new.analyses if a.circuit.id == "D5")
     moved = {(m.quantity, m.subject): m for m in _by_id(a_to_b)["D5"].moved}
-    assert moved[(Quantity.CURRENT, "D5")].old is None
-    assert moved[(Quantity.CURRENT, "D5")].new == diff.Reading(d5.leds[0].current.nominal,
+    assert moved[(Measure.CURRENT, "D5")].old is None
+    assert moved[(Measure.CURRENT, "D5")].new == diff.Reading(d5.leds[0].current.nominal,
                                                                 d5.leds[0].current.minimum,
                                                                 d5.leds[0].current.maximum)
-    assert moved[(Quantity.HEADROOM, "")].new.value == d5.headroom_v < 0
-    assert moved[(Quantity.DISSIPATION, "R5")].new.value == d5.resistors[0].power_max
+    assert moved[(Measure.HEADROOM, "")].new.value == d5.headroom_v < 0
+    assert moved[(Measure.DISSIPATION, "R5")].new.value == d5.resistors[0].power_max
 
 
 def test_findings_that_appeared_and_went_away(a_to_b, panel_files) -> None:
@@ -118,17 +118,17 @@ def _fixed_diff() -> diff.NetlistDiff:
     string, bank = CircuitKind.STRING, CircuitKind.BANK
     return diff.NetlistDiff("boards/panel-a.net", "boards/panel-b.net", (
         diff.CircuitDiff(Status.CHANGED, circuit("D1", string, "D1"), circuit("D1", string, "D1"), (
-            Moved(Quantity.CURRENT, "D1", diff.Reading(0.194, 0.170, 0.219), diff.Reading(0.0197, 0.0172, 0.0224)),
-            Moved(Quantity.DISSIPATION, "R1", diff.Reading(2.15), diff.Reading(0.243)),
-            Moved(Quantity.HEADROOM, "", diff.Reading(7.89), diff.Reading(9.15))),
+            Moved(Measure.CURRENT, "D1", diff.Reading(0.194, 0.170, 0.219), diff.Reading(0.0197, 0.0172, 0.0224)),
+            Moved(Measure.DISSIPATION, "R1", diff.Reading(2.15), diff.Reading(0.243)),
+            Moved(Measure.HEADROOM, "", diff.Reading(7.89), diff.Reading(9.15))),
             gone=(finding("current-margin", Severity.ERROR, "D1 can carry 219 mA | more than 30 mA", "D1", "R1"),),
             edits=(diff.Edit("R1", "value", "47", "510"), diff.Edit("R1", "Power", None, "1/4W"),
                    diff.Edit("Q9", "part", None, ""))),
         diff.CircuitDiff(Status.CHANGED, circuit("D3", bank, "D3", "D4"), circuit("D3", string, "D3"), (
-            Moved(Quantity.CURRENT, "D4", diff.Reading(0.0149, 0.000131, 0.034), None),),
+            Moved(Measure.CURRENT, "D4", diff.Reading(0.0149, 0.000131, 0.034), None),),
             appeared=(finding("resistor-overload", Severity.WARNING, "R3 at 62.2 mW, 50% of <its> rating", "R3"),)),
         diff.CircuitDiff(Status.ADDED, None, circuit("D4", string, "D4"), (
-            Moved(Quantity.CURRENT, "D4", None, diff.Reading(0.0149, 0.0119, 0.0181)),), elsewhere=("D3",)),
+            Moved(Measure.CURRENT, "D4", None, diff.Reading(0.0149, 0.0119, 0.0181)),), elsewhere=("D3",)),
         diff.CircuitDiff(Status.REMOVED, circuit("D2", string, "D2"), None,
                          gone=(finding("unlimited-led", Severity.ERROR, "D2 sits across +5V and GND", "D2"),)),
         diff.CircuitDiff(Status.UNCHANGED, circuit("D6", string, "D6"), circuit("D6", string, "D6")),

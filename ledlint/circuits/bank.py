@@ -5,7 +5,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from ledlint.circuits.circuit import Branch, CircuitKind, LedCircuit, Wired
+from ledlint.circuits.circuit import CircuitKind, LedCircuit, LedString, Wired
 from ledlint.circuits.shapes import Context, Junction, Recogniser
 from ledlint.circuits.stages import resistor_fed
 from ledlint.circuits.topology import Terminal, TerminalKind
@@ -33,7 +33,7 @@ def from_junction(ctx: Context, j: Junction) -> LedCircuit | None:
             return None  # one string: a series string
         far = ends[0]
         source, ret = (common, far) if j.at_top else (far, common)
-        return ResistorBank(*ctx.place(j.leds), branches=tuple(Branch(s.elements) for s in j.strings),
+        return ResistorBank(*ctx.place(j.leds), branches=tuple(LedString(s.elements) for s in j.strings),
                             source=source, ret=ret, node=j.node, top=top, bottom=bottom)
     if all(t.kind is TerminalKind.PIN for t in ends) and common.kind is TerminalKind.PIN:
         return None  # pins at both ends: multiplexed

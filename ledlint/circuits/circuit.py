@@ -25,7 +25,7 @@ class CircuitKind(Enum):
 
 
 @dataclass(frozen=True)
-class Branch:
+class LedString:
     """One string of a circuit: its elements top (anode side) to bottom."""
 
     elements: tuple[Element, ...]
@@ -85,7 +85,7 @@ class Wired(LedCircuit):
     """A circuit of series strings between two ends, with any common path above or below the net
     the strings meet at."""
 
-    branches: tuple[Branch, ...] = ()
+    branches: tuple[LedString, ...] = ()
     source: Terminal | None = None
     ret: Terminal | None = None
     node: str = ""  # the net the strings meet at
@@ -120,6 +120,6 @@ class Wired(LedCircuit):
         return tuple(e for e in self.elements if e.kind is ElementKind.SWITCH and e.against and not e.held)
 
 
-def _branch_key(branch: Branch) -> tuple[int | str, ...]:
+def _branch_key(branch: LedString) -> tuple[int | str, ...]:
     first = (branch.leds or branch.elements)[:1]
     return natural(first[0].id) if first else ()

@@ -5,7 +5,7 @@ from __future__ import annotations
 from collections.abc import Iterator
 from dataclasses import dataclass
 
-from ledlint.circuits.circuit import Branch, CircuitKind, LedCircuit, Wired
+from ledlint.circuits.circuit import CircuitKind, LedCircuit, LedString, Wired
 from ledlint.circuits.shapes import Context, Recogniser, Span
 from ledlint.circuits.stages import DriverIC, driver_of, regulator_driver
 from ledlint.circuits.topology import ElementKind, TerminalKind
@@ -31,7 +31,7 @@ def from_span(ctx: Context, span: Span) -> Iterator[LedCircuit]:
     if driver is None and regulators and len(span.segments) == 1:
         driver = regulator_driver(ctx, regulators[0])
     if driver is not None:
-        yield DriverOutput(*ctx.place(span.leds), branches=tuple(Branch(s.elements) for s in span.segments),
+        yield DriverOutput(*ctx.place(span.leds), branches=tuple(LedString(s.elements) for s in span.segments),
                            source=span.source, ret=span.ret, node=driver.output.net or "", driver=driver)
 
 

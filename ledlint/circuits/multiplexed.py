@@ -5,7 +5,7 @@ from __future__ import annotations
 from collections.abc import Iterator
 from dataclasses import dataclass
 
-from ledlint.circuits.circuit import Branch, CircuitKind, LedCircuit, Wired
+from ledlint.circuits.circuit import CircuitKind, LedCircuit, LedString, Wired
 from ledlint.circuits.shapes import Context, Junction, Recogniser, Span
 from ledlint.circuits.stages import resistor_fed, sink_in
 from ledlint.circuits.topology import TerminalKind
@@ -38,7 +38,7 @@ def from_span(ctx: Context, span: Span) -> Iterator[LedCircuit]:
         return
     for seg in span.segments:
         if sink_in(ctx, seg.elements, seg.bottom) is None:
-            yield Multiplexed(*ctx.place(e.led for e in seg.leds), branches=(Branch(seg.elements),),
+            yield Multiplexed(*ctx.place(e.led for e in seg.leds), branches=(LedString(seg.elements),),
                               source=span.source, ret=span.ret,
                               reason=f"both ends on driver pins ({span.source.detail}, {span.ret.detail})")
 

@@ -11,7 +11,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Callable, Iterable, Iterator, NamedTuple
 
-from ledlint.circuits.circuit import Branch, CircuitKind, LedCircuit
+from ledlint.circuits.circuit import CircuitKind, LedCircuit, LedString
 from ledlint.circuits.graph import NetGraph
 from ledlint.circuits.topology import Element, ElementKind, Segment, Terminal, TerminalKind, Topology
 from ledlint.config import Config
@@ -106,9 +106,9 @@ class Junction:
         """Each string's own far end."""
         return tuple(topo.terminal(s.bottom if self.at_top else s.top) for s in self.strings)
 
-    def branches(self, topo: Topology) -> tuple[Branch, ...]:
+    def branches(self, topo: Topology) -> tuple[LedString, ...]:
         """The strings, each with its own far end."""
-        return tuple(Branch(s.elements, t) for s, t in zip(self.strings, self.ends(topo)))
+        return tuple(LedString(s.elements, t) for s, t in zip(self.strings, self.ends(topo)))
 
     def odd_end(self, topo: Topology) -> Terminal | None:
         """The first end, common or a string's own, that the recogniser does not follow."""

@@ -6,7 +6,7 @@ from __future__ import annotations
 from collections.abc import Iterator
 from dataclasses import dataclass
 
-from ledlint.circuits.circuit import Branch, CircuitKind, LedCircuit, Wired
+from ledlint.circuits.circuit import CircuitKind, LedCircuit, LedString, Wired
 from ledlint.circuits.shapes import Context, Junction, Recogniser, Span
 from ledlint.circuits.stages import SinkStage, sink_below, sink_in
 
@@ -28,7 +28,7 @@ def from_junction(ctx: Context, j: Junction) -> LedCircuit | None:
     if found is None or len(fars) != 1:
         return None
     stage, ground = found
-    return CurrentSink(*ctx.place(j.leds), branches=tuple(Branch(s.elements) for s in j.strings),
+    return CurrentSink(*ctx.place(j.leds), branches=tuple(LedString(s.elements) for s in j.strings),
                        source=ctx.topo.terminal(next(iter(fars))), ret=ground, node=j.node, sink=stage)
 
 
@@ -38,7 +38,7 @@ def from_span(ctx: Context, span: Span) -> Iterator[LedCircuit]:
         if found is not None:
             stage, ground = found
             yield CurrentSink(*ctx.place(e.led for e in seg.leds),
-                              branches=(Branch(seg.elements[:seg.elements.index(stage.transistor)]),),
+                              branches=(LedString(seg.elements[:seg.elements.index(stage.transistor)]),),
                               source=span.source, ret=ground, sink=stage)
 
 

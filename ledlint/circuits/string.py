@@ -6,7 +6,7 @@ from __future__ import annotations
 from collections.abc import Iterator
 from dataclasses import dataclass
 
-from ledlint.circuits.circuit import Branch, CircuitKind, LedCircuit, Wired
+from ledlint.circuits.circuit import CircuitKind, LedCircuit, LedString, Wired
 from ledlint.circuits.shapes import Context, Junction, Recogniser, Span
 from ledlint.circuits.stages import resistor_fed, sink_in
 from ledlint.circuits.topology import Element, Segment, TerminalKind
@@ -52,7 +52,7 @@ def from_segment(ctx: Context, seg: Segment) -> LedCircuit | None:
     """A string with a part facing against the rest."""
     if not seg.blocked:
         return None
-    return SeriesString(*ctx.place(e.led for e in seg.leds), branches=(Branch(seg.elements),),
+    return SeriesString(*ctx.place(e.led for e in seg.leds), branches=(LedString(seg.elements),),
                         source=ctx.topo.terminal(seg.top), ret=ctx.topo.terminal(seg.bottom),
                         opposed=seg.opposed, swapped=seg.swapped)
 
@@ -63,7 +63,7 @@ def from_junction(ctx: Context, j: Junction) -> LedCircuit | None:
         return None
     far, common = j.ends(ctx.topo)[0], ctx.topo.terminal(j.far_net)
     source, ret = (common, far) if j.at_top else (far, common)
-    return SeriesString(*ctx.place(j.leds), branches=(Branch(j.strings[0].elements),), source=source, ret=ret,
+    return SeriesString(*ctx.place(j.leds), branches=(LedString(j.strings[0].elements),), source=source, ret=ret,
                         node=j.node, top=j.common if j.at_top else (), bottom=() if j.at_top else j.common)
 
 
@@ -74,7 +74,7 @@ def from_span(ctx: Context, span: Span) -> Iterator[LedCircuit]:
         return
     for seg in span.segments:
         if sink_in(ctx, seg.elements, seg.bottom) is None:
-            yield SeriesString(*ctx.place(e.led for e in seg.leds), branches=(Branch(seg.elements),),
+            yield SeriesString(*ctx.place(e.led for e in seg.leds), branches=(LedString(seg.elements),),
                                source=span.source, ret=span.ret)
 
 

@@ -6,7 +6,7 @@ from __future__ import annotations
 from collections.abc import Iterator
 from dataclasses import dataclass
 
-from ledlint.circuits.circuit import Branch, CircuitKind, LedCircuit, Wired
+from ledlint.circuits.circuit import CircuitKind, LedCircuit, LedString, Wired
 from ledlint.circuits.shapes import Context, Junction, Recogniser, Span
 from ledlint.circuits.stages import sink_below
 from ledlint.circuits.topology import TerminalKind
@@ -74,7 +74,7 @@ def from_span(ctx: Context, span: Span) -> Iterator[LedCircuit]:
                  f"holds {t.detail}: not a supply, ground or driver pin the tool follows")
         reason = f"the {side} side ends at net {t.net}, which {where}"
     for seg in span.segments:
-        yield Unrecognised(*ctx.place(e.led for e in seg.leds), branches=(Branch(seg.elements),),
+        yield Unrecognised(*ctx.place(e.led for e in seg.leds), branches=(LedString(seg.elements),),
                            source=span.source, ret=span.ret, reason=reason,
                            never_lights=t.kind is TerminalKind.OPEN)
 

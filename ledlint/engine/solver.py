@@ -129,7 +129,7 @@ class Cases:
 
 
 @dataclass(frozen=True)
-class Topology:
+class Layout:
     """Which LED sits in which branch; LEDs are numbered branch by branch."""
 
     counts: NDArray[np.intp]  # LEDs per branch
@@ -137,7 +137,7 @@ class Topology:
     singles: bool  # every branch is one LED: the branch axis is the LED axis
 
     @classmethod
-    def of(cls, circuit: Circuit) -> Topology:
+    def of(cls, circuit: Circuit) -> Layout:
         counts = np.array([len(b.leds) for b in circuit.branches], dtype=np.intp)
         starts = np.concatenate([[0], np.cumsum(counts)[:-1]]).astype(np.intp)
         return cls(counts=counts, starts=starts, singles=bool(np.all(counts == 1)))
@@ -157,14 +157,14 @@ class Setup:
 
     circuit: Circuit
     table: LedTable
-    topology: Topology
+    layout: Layout
 
     @classmethod
     def of(cls, circuit: Circuit) -> Setup:
-        return cls(circuit=circuit, table=LedTable.of(circuit.leds), topology=Topology.of(circuit))
+        return cls(circuit=circuit, table=LedTable.of(circuit.leds), layout=Layout.of(circuit))
 
     def check(self, cases: Cases) -> None:
-        k, n_leds = len(self.topology.counts), len(self.table.n)
+        k, n_leds = len(self.layout.counts), len(self.table.n)
         if cases.r_branch.shape[1] != k or cases.vf.shape[1] != n_leds:
             raise ModelError(
                 f"cases are for {cases.r_branch.shape[1]} branches and {cases.vf.shape[1]} LEDs, "
@@ -192,7 +192,7 @@ class _Path:
     @classmethod
     def of(cls, setup: Setup, cases: Cases) -> _Path:
         circuit = setup.circuit
-        r_leds = setup.topology.per_branch(np.broadcast_to(setup.table.r_s, cases.vf.shape))
+        r_leds = setup.layout.per_branch(np.broadcast_to(setup.table.r_s, cases.vf.shape))
         source = cases.drive if circuit.current_driven else cases.drive - cases.v_switch
         return cls(r_common=cases.r_series + circuit.r_source + cases.r_switch, source=source,
                    r_branch=cases.r_branch + r_leds)
@@ -236,7 +236,7 @@ def _fast(setup: Setup, path: _Path, jn: Junctions, vj: Array,
     spread over about that decade, and the tangent's small resistance makes the first step
     drive the high-Vf LEDs to near zero, from where they climb back a step at a time.
     """
-    topo, current_driven = setup.topology, setup.circuit.current_driven
+    topo, current_driven = setup.layout, setup.circuit.current_driven
     out_vj, out_i, out_v = np.empty_like(vj), np.empty_like(path.r_branch), np.empty(vj.shape[0])
     settled = np.zeros(vj.shape[0], dtype=bool)
     w = _Work.of(path, jn)
@@ -303,7 +303,7 @@ def _fast(setup: Setup, path: _Path, jn: Junctions, vj: Array,
 def _branch_solve(setup: Setup, jn: Junctions, r_branch: Array, v: Array,
                   i: Array) -> tuple[Array, Array, Array]:
     """Each branch's current at node voltage ``v``: (current, junction voltages, dV/dI)."""
-    topo = setup.topology
+    topo = setup.layout
     for _ in range(_INNER_STEPS):
         vj = jn.voltage(topo.to_leds(i))
         slope = topo.per_branch(1.0 / jn.conductance(vj)) + r_branch
@@ -317,7 +317,7 @@ def _branch_solve(setup: Setup, jn: Junctions, r_branch: Array, v: Array,
 
 def _bracketed(setup: Setup, path: _Path, jn: Junctions, guess: Array) -> State:
     """Safeguarded Newton-bisection on the node voltage; converges for every case."""
-    topo = setup.topology
+    topo = setup.layout
     k = len(topo.counts)
     if setup.circuit.current_driven:
         share = np.broadcast_to((path.source / k)[:, None], path.r_branch.shape)
@@ -368,7 +368,7 @@ class Linearised:
 
     @classmethod
     def at(cls, setup: Setup, cases: Cases, jn: Junctions, state: State) -> Linearised:
-        path, topo = _Path.of(setup, cases), setup.topology
+        path, topo = _Path.of(setup, cases), setup.layout
         rd = 1.0 / jn.conductance(state.vj)
         y = 1.0 / (topo.per_branch(rd) + path.r_branch)
         if setup.circuit.current_driven:
@@ -450,7 +450,7 @@ class Solution:
         i_k = state.branch_current
         if not np.all(np.isfinite(i_k)) or not np.all(np.isfinite(state.vj)):
             raise ModelError("the circuit's values are out of the range the model can solve")
-        i_led = setup.topology.to_leds(i_k)
+        i_led = setup.layout.to_leds(i_k)
         v_led = state.vj + setup.table.r_s * i_led
         common = i_k.sum(axis=1)
         path = _Path.of(setup, cases)

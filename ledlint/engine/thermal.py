@@ -43,7 +43,7 @@ def heated(setup: Setup, cases: Cases, start: Array | None = None) -> Solution:
         tj = new
         jn = fit.at(tj)
         state = solve_state(setup, cases, jn, vj)
-        i_led = setup.topology.to_leds(state.branch_current)
+        i_led = setup.layout.to_leds(state.branch_current)
         heat = ambient + table.rth * np.maximum((state.vj + table.r_s * i_led) * i_led, 0.0)
         runaway = np.any(heat >= TJ_CEILING, axis=1)
         settled = (np.max(np.abs(heat - tj), axis=1) <= _HEAT_TOLERANCE) & ~runaway
@@ -69,7 +69,7 @@ def _newton_step(setup: Setup, state: State, lin: Linearised, slope: Array,
     fixed-point step is kept: it climbs towards runaway instead of jumping to a steady
     state that self-heating would leave.
     """
-    topo, table = setup.topology, setup.table
+    topo, table = setup.layout, setup.table
     i = topo.to_leds(state.branch_current)
     # δP_j = i·s_j·δT_j + beta_j·δI_k  (P = (Vj + Rs·I)·I, δVj = s·δT + r_d·δI)
     beta = i * lin.rd + state.vj + 2.0 * table.r_s * i
@@ -96,7 +96,7 @@ def _predicted_shift(setup: Setup, lin: Linearised, inserted: Array) -> Array:
     """The junction-voltage change that voltages ``inserted`` at the junctions (a temperature
     step times dVj/dTj) make in the linearised bank: the next solve starts there, a few
     Newton steps nearer than the last solution."""
-    topo = setup.topology
+    topo = setup.layout
     e = topo.per_branch(inserted)
     d_current = lin.y * (np.einsum("ij,ij->i", lin.share, e)[:, None] - e)
     return inserted + lin.rd * topo.to_leds(d_current)

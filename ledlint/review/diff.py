@@ -24,13 +24,13 @@ class Status(Enum):
     UNCHANGED = "unchanged"
 
 
-class Quantity(Enum):
+class Measure(Enum):
     CURRENT = "current"  # per LED, A
     DISSIPATION = "dissipation"  # per resistor at its worst corner, W
     HEADROOM = "headroom"  # per circuit at the low corner, V
 
 
-_UNITS = {Quantity.CURRENT: "A", Quantity.DISSIPATION: "W", Quantity.HEADROOM: "V"}
+_UNITS = {Measure.CURRENT: "A", Measure.DISSIPATION: "W", Measure.HEADROOM: "V"}
 
 
 @dataclass(frozen=True)
@@ -60,7 +60,7 @@ def _sig(x: float | None) -> str:
 class Moved:
     """A figure that differs between the two netlists; None where one side has no such figure."""
 
-    quantity: Quantity
+    quantity: Measure
     subject: str  # the LED die or the resistor; "" for the circuit's headroom
     old: Reading | None
     new: Reading | None
@@ -71,7 +71,7 @@ class Moved:
 
     @property
     def label(self) -> str:
-        return "headroom" if self.quantity is Quantity.HEADROOM else f"{self.quantity.value} {self.subject}"
+        return "headroom" if self.quantity is Measure.HEADROOM else f"{self.quantity.value} {self.subject}"
 
     def side(self, reading: Reading | None) -> str:
         return "—" if reading is None else reading.text(self.unit)
@@ -192,31 +192,31 @@ def _leds(c: LedCircuit | None) -> tuple[str, ...]:
     return c.led_refs if c else ()
 
 
-def readings(a: Analysis) -> dict[tuple[Quantity, str], Reading]:
+def readings(a: Analysis) -> dict[tuple[Measure, str], Reading]:
     """The figures a reviewer follows for one circuit, keyed by what they measure."""
-    out: dict[tuple[Quantity, str], Reading] = {}
+    out: dict[tuple[Measure, str], Reading] = {}
     if not isinstance(a, Computed):
         return out
     c = a.circuit
     blocked = isinstance(c, SeriesString) and c.blocked
     if a.reversed or (isinstance(c, SeriesString) and blocked and not c.reversed_switches):
         # Reversed, or a string that never conducts: leakage only, so its LEDs read 0 A.
-        return {(Quantity.CURRENT, str(led.id)): Reading(0.0) for led in a.leds}
+        return {(Measure.CURRENT, str(led.id)): Reading(0.0) for led in a.leds}
     if not blocked:
         for led in a.leds:
-            out[(Quantity.CURRENT, str(led.id))] = Reading(led.current.nominal, led.current.minimum,
+            out[(Measure.CURRENT, str(led.id))] = Reading(led.current.nominal, led.current.minimum,
                                                            led.current.maximum)
     for r in a.resistors:
-        out[(Quantity.DISSIPATION, r.ref)] = Reading(r.power_max)
+        out[(Measure.DISSIPATION, r.ref)] = Reading(r.power_max)
     if isinstance(a, Driven) and a.headroom_v is not None:
-        out[(Quantity.HEADROOM, "")] = Reading(a.headroom_v)
+        out[(Measure.HEADROOM, "")] = Reading(a.headroom_v)
     return out
 
 
 def _moved(old: Analysis | None, new: Analysis | None) -> tuple[Moved, ...]:
     before = readings(old) if old else {}
     after = readings(new) if new else {}
-    order = list(Quantity)
+    order = list(Measure)
     out = []
     for key in sorted(dict.fromkeys([*after, *before]), key=lambda k: order.index(k[0])):  # stable sort
         b, a = before.get(key), after.get(key)

@@ -57,8 +57,8 @@ def assert_residuals(circuit: Circuit, cases: Cases, sol: Solution) -> None:
     # a junction deep in reverse has a dynamic resistance near 1/GMIN, so a current rounded to
     # float64 (eps relative) fixes its voltage no closer than eps·|I|/g (numerical analysis,
     # conditioning of V(I)).
-    rounding = setup.topology.per_branch(8 * np.finfo(float).eps * np.abs(sol.led_current) / jn.conductance(vj))
-    branch_volts = setup.topology.per_branch(sol.led_voltage) + cases.r_branch * sol.branch_current
+    rounding = setup.layout.per_branch(8 * np.finfo(float).eps * np.abs(sol.led_current) / jn.conductance(vj))
+    branch_volts = setup.layout.per_branch(sol.led_voltage) + cases.r_branch * sol.branch_current
     assert np.all(np.abs(branch_volts - sol.node_voltage[:, None]) <= 1e-8 * scale[:, None] + rounding)
     # Each LED on its own curve: junction current at (V − I·Rs) equals the branch current.
     assert np.allclose(jn.current(vj), sol.led_current, rtol=1e-7, atol=1e-15)
