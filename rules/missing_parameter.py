@@ -33,6 +33,7 @@ from typing import Iterator
 
 from ledlint.checks.findings import Finding, Severity
 from ledlint.checks.registry import Rule, RuleContext
+from ledlint.circuits.circuit import CircuitKind
 from ledlint.rules._support import ids
 
 
@@ -71,4 +72,5 @@ RULE = Rule(
     severity=Severity.INFO,
     check=check,
     doc=__doc__,
+    kinds=tuple(CircuitKind),  # a value any circuit lacks
 )

@@ -41,7 +41,8 @@ from ledlint.circuits.circuit import CircuitKind
 from ledlint.checks.findings import Finding, Severity, Value, quantity
 from ledlint.parts.params import Param
 from ledlint.quantities.ratings import chip_for, derated_power
-from ledlint.checks.registry import Option, Rule, RuleContext
+from ledlint.checks.registry import Rule, RuleContext
+from ledlint.rules._options import DESIGN_FACTOR
 from ledlint.rules._support import circuit_assumptions, resistor_assumptions
 
 _ROLE = {ResistorRole.BALLAST: "ballast", ResistorRole.BALANCING: "balancing resistor",
@@ -49,7 +50,7 @@ _ROLE = {ResistorRole.BALLAST: "ballast", ResistorRole.BALANCING: "balancing res
 
 
 def check(ctx: RuleContext) -> Iterator[Finding]:
-    factor = ctx.options["design_factor"]
+    factor = ctx.options[DESIGN_FACTOR.option.name]
     for a in ctx.analyses:
         if not isinstance(a, Computed):
             continue
@@ -98,7 +99,7 @@ RULE = Rule(
     summary="resistor dissipation above its usable rating (design factor, IEC 60115-1 derating)",
     severity=Severity.ERROR,
     check=check,
-    options=(Option("design_factor", 0.5, "fraction of rating", "the share of the derated rating to use", 0.05, 1.0),),
+    options=(DESIGN_FACTOR.option,),
     doc=__doc__,
     kinds=(CircuitKind.STRING, CircuitKind.BANK, CircuitKind.SINK, CircuitKind.DRIVER),
 )

@@ -40,7 +40,8 @@ from __future__ import annotations
 from typing import Iterator
 
 from ledlint.checks.findings import Finding, Severity, Value, quantity
-from ledlint.checks.registry import Option, Rule, RuleContext
+from ledlint.checks.registry import Rule, RuleContext
+from ledlint.rules._options import DEAD_RATIO, MIN_RATIO
 from ledlint.analysis.results import VoltageDriven
 from ledlint.circuits.bank import ResistorBank
 from ledlint.circuits.circuit import CircuitKind, Wired
@@ -49,8 +50,8 @@ from ledlint.rules._support import by_evidence, circuit_assumptions, ids, is_def
 
 
 def check(ctx: RuleContext) -> Iterator[Finding]:
-    least = ctx.options["min_ratio"]
-    dead = ctx.options["dead_ratio"]
+    least = ctx.options[MIN_RATIO.option.name]
+    dead = ctx.options[DEAD_RATIO.option.name]
     for a in ctx.analyses:
         if not isinstance(a, VoltageDriven) or a.unlimited or a.headroom_v is None or a.supply is None:
             continue
@@ -115,8 +116,7 @@ RULE = Rule(
     summary="supply barely above the string's forward voltage: current collapses at the low corner",
     severity=Severity.ERROR,
     check=check,
-    options=(Option("min_ratio", 0.5, "fraction of nominal", "least low-corner current before a warning"),
-             Option("dead_ratio", 0.1, "fraction of nominal", "below this the string counts as not conducting")),
+    options=(MIN_RATIO.option, DEAD_RATIO.option),
     doc=__doc__,
     kinds=(CircuitKind.STRING, CircuitKind.BANK),
 )

@@ -23,7 +23,7 @@ ORDER = [
     {"rules"},
     {"review"},
     {"report"},
-    {"cli", "__main__"},
+    {"api", "cli", "__main__"},
 ]
 
 

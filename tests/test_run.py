@@ -136,3 +136,18 @@ def test_rules_and_explain_commands() -> None:
     e = _cli("explain", "thermal-runaway")
     assert e.returncode == 0 and "Formula" in e.stdout and "gain_limit" in e.stdout
     assert _cli("explain", "no-such-rule").returncode == 2
+
+
+def test_the_public_api_checks_a_netlist_in_memory() -> None:
+    # ledlint.api is what scripts and third-party rules import (DEVELOPERS.md): the same findings
+    # as a file check, from text and a configuration mapping.
+    from kicad8 import Board
+    from ledlint import api
+
+    b = Board("api", "api")
+    b.resistor("R1", "47", "+5V", "/A")
+    b.led("D1", "red", "/A", "GND", Vf="2.0V@20mA", If_max="20mA")
+    result = api.check_text(b.text(), "api.net", api.from_mapping({"ambient": {"min": 25, "max": 25}}))
+    assert {f.rule for f in result.findings} >= {"current-margin"}
+    assert isinstance(result.board.analyses[0], api.StringResult)
+    assert {r.id for r in api.load_rules(include_plugins=False)} >= {"current-margin", "unlimited-led"}

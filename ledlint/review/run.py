@@ -150,17 +150,22 @@ def _check_one(job: _Job) -> tuple[FileResult, list[Waiver], set[int]]:
 
 
 def _check_file(job: _Job) -> tuple[FileResult, list[Waiver], set[int]]:
-    rules = load_rules()
-    netlist = read_netlist(job.path)
-    board = analyse(netlist, job.config)
-    findings = run_rules(rules, board, job.path, job.rule_settings)
+    return check_design(read_netlist(job.path), job.config, load_rules(), job.rule_settings, job.path)
+
+
+def check_design(netlist: Netlist, config: Config, rules: tuple[Rule, ...], rule_settings: RuleSettings,
+                 path: str) -> tuple[FileResult, list[Waiver], set[int]]:
+    """One design read already: analysis, rules and waivers. Also the waivers written on its parts
+    that silenced nothing, and which of the configuration's waivers did silence something."""
+    board = analyse(netlist, config)
+    findings = run_rules(rules, board, path, rule_settings)
     own = field_waivers(netlist, {r.id for r in rules})
-    waivers = list(job.config.waivers) + own
+    waivers = list(config.waivers) + own
     active, waived, used = apply_waivers(findings, waivers)
-    unused_own = [w for i, w in enumerate(waivers) if i >= len(job.config.waivers) and i not in used]
-    used_config = {i for i in used if i < len(job.config.waivers)}
-    return (FileResult(job.path, netlist, board, tuple(active), tuple(waived), job.config.path,
-                       summarise(job.path, board)), unused_own, used_config)
+    unused_own = [w for i, w in enumerate(waivers) if i >= len(config.waivers) and i not in used]
+    used_config = {i for i in used if i < len(config.waivers)}
+    return (FileResult(path, netlist, board, tuple(active), tuple(waived), config.path, summarise(path, board)),
+            unused_own, used_config)
 
 
 def check(paths: Sequence[str | Path], *, config_path: str | None = None,

@@ -62,3 +62,25 @@ def test_explain_from_the_command_line() -> None:
 def test_explain_unknown_rule_suggests_the_nearest(capsys: pytest.CaptureFixture[str]) -> None:
     assert main(["explain", "reverse-bais"]) == 2
     assert "reverse-bias" in capsys.readouterr().err
+
+
+def test_every_rule_module_is_listed_and_declares_what_it_reads() -> None:
+    # Built-in rules are listed explicitly (rules/__init__.py); a module left off would never run.
+    import ledlint.rules
+    from pathlib import Path
+
+    modules = {p.stem for p in Path(ledlint.rules.__file__).parent.glob("*.py") if not p.stem.startswith("_")}
+    assert modules == set(ledlint.rules.BUILTIN)
+    assert all(r.kinds for r in RULES.values()), [r.id for r in RULES.values() if not r.kinds]
+
+
+def test_shared_options_are_declared_by_the_rule_that_owns_them() -> None:
+    # A rule reads another's option through one definition (rules/_options.py), never by restating
+    # its default: the owner declares that very Option.
+    from ledlint.checks.registry import OptionOf
+    from ledlint.rules import _options
+
+    shared = [v for v in vars(_options).values() if isinstance(v, OptionOf)]
+    assert shared
+    for s in shared:
+        assert any(o is s.option for o in RULES[s.rule].options), (s.rule, s.option.name)
