@@ -17,14 +17,15 @@ from ledlint.errors import ConfigError, InputError, LedlintError
 from ledlint.netlist.kicad_net import parse_netlist, read_netlist
 from ledlint.netlist.model import Component, Net, Netlist, Pin
 from ledlint.parts.kinds import LedId
-from ledlint.review.run import FileResult, RunResult, check, check_design, load_rules
+from ledlint.review.rules import load_rules
+from ledlint.review.run import FileResult, RunResult, check, check_design
 
 __all__ = [
     "Analysis", "BankResult", "Blocked", "CircuitKind", "Component", "Computed", "Config", "ConfigError",
     "CurrentDriven", "DriverResult", "Driven", "FileResult", "Finding", "Incomplete", "InputError", "LedCircuit",
     "LedId", "LedResult", "LedString", "LedlintError", "Net", "Netlist", "Option", "OptionOf", "Pin", "PinResult",
     "ResistorResult", "ResistorRole", "Rule", "RuleContext", "RunResult", "Severity", "Sharing", "SinkResult",
-    "StringResult", "Value", "VoltageDriven", "Wired", "check_files", "check_netlist", "check_text", "load_rules",
+    "StringResult", "Value", "VoltageDriven", "Wired", "check_files", "check_netlist", "check_text", "from_mapping", "load_rules",
     "parse_netlist", "read_netlist",
 ]
 

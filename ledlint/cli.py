@@ -13,12 +13,15 @@ import traceback
 from contextlib import contextmanager
 from pathlib import Path
 from types import ModuleType
-from typing import Callable, Iterator, Sequence
+from typing import TYPE_CHECKING, Callable, Iterator, Sequence
 
 from ledlint import __version__
 from ledlint.errors import LedlintError, failure_reason
-from ledlint.checks.registry import rule_doc
-from ledlint.review.run import FAIL_LEVELS, RunResult, check, load_rules
+from ledlint.checks.findings import FAIL_LEVELS
+from ledlint.review.rules import load_rules
+
+if TYPE_CHECKING:
+    from ledlint.review.run import RunResult
 
 EXIT_CLEAN, EXIT_FINDINGS, EXIT_BAD_INPUT, EXIT_INTERNAL = 0, 1, 2, 3
 EXIT_INTERRUPTED = 130  # the shell's 128 + SIGINT
@@ -178,6 +181,8 @@ def _render(fmt: str, result: RunResult, args: argparse.Namespace) -> str:
 
 
 def cmd_check(args: argparse.Namespace) -> int:
+    from ledlint.review.run import check  # the analysis, numpy and the graph library load only to check
+
     baseline = _module("ledlint.review.baseline")
     known = baseline.load(args.baseline) if args.baseline else None
     with _progress() as progress:
@@ -192,6 +197,8 @@ def cmd_check(args: argparse.Namespace) -> int:
 
 
 def cmd_baseline(args: argparse.Namespace) -> int:
+    from ledlint.review.run import check
+
     with _progress() as progress:
         result = check(find_netlists(args.paths), config_path=args.config, progress=progress)
     write_whole(_module("ledlint.review.baseline").render(result, args.output), args.output)
@@ -210,6 +217,8 @@ def cmd_rules(args: argparse.Namespace) -> int:
     rules = load_rules()
     if args.format == "json":
         import json
+
+        from ledlint.checks.registry import rule_doc
 
         sys.stdout.write(json.dumps([rule_doc(r) for r in rules], indent=2, ensure_ascii=False) + "\n")
     else:

@@ -45,7 +45,6 @@ from ledlint.checks.registry import Rule, RuleContext
 from ledlint.circuits.bank import ResistorBank
 from ledlint.circuits.circuit import CircuitKind
 from ledlint.rules._support import ballast_hint, by_evidence, circuit_assumptions, ids, join, led_assumptions
-from ledlint.analysis.sizing import equal_share_resistor
 
 
 def check(ctx: RuleContext) -> Iterator[Finding]:
@@ -114,6 +113,8 @@ def _hint(ctx: RuleContext, a: Driven) -> str:
     v = a.supply.volts
     series_v = len(strings) * string_max
     if v.minimum - series_v >= 1.0:
+        from ledlint.analysis.sizing import equal_share_resistor  # the engine loads only when a hint is sized
+
         leds = sum(len(st) for st in strings)
         r = equal_share_resistor(v.nominal, len(strings) * string_typ, a.sharing.equal_share)
         if r:

@@ -73,11 +73,12 @@ def test_lazy_format_tables_match_their_modules() -> None:
 def test_an_interrupt_is_one_line_and_exit_130(monkeypatch, capsys) -> None:
     """Ctrl-C: the shell's convention, 128 + SIGINT (common practice), and no traceback."""
     from ledlint import cli
+    from ledlint.review import run
 
     def interrupted(*args, **kwargs):
         raise KeyboardInterrupt
 
-    monkeypatch.setattr(cli, "check", interrupted)
+    monkeypatch.setattr(run, "check", interrupted)  # the command line loads it when it checks
     assert cli.main(["check", str(SAMPLES)]) == 130
     assert capsys.readouterr().err == "ledlint: interrupted; nothing written\n"
 
@@ -118,3 +119,14 @@ def test_a_full_disk_on_standard_output_is_a_clear_error() -> None:
 def test_an_endless_binary_stream_is_refused_at_once() -> None:
     r = run("check", "/dev/zero")
     assert r.returncode == 2 and "binary file (NUL byte)" in r.stderr
+
+
+@pytest.mark.parametrize("argv", [["--version"], ["rules"], ["explain", "current-margin"]])
+def test_listing_the_rules_loads_no_numerical_or_graph_library(argv: list[str]) -> None:
+    # `--version`, `rules` and `explain` answer at once: numpy, networkx and rich load only when a
+    # board is checked or a report drawn (run in a fresh interpreter, whose modules start empty).
+    code = ("import sys; from ledlint.cli import main\n"
+            "try:\n    main(sys.argv[1:])\nexcept SystemExit:\n    pass\n"
+            "print(sorted(m for m in sys.modules if m.split('.')[0] in ('numpy', 'networkx', 'rich')))")
+    done = subprocess.run([sys.executable, "-c", code, *argv], capture_output=True, text=True)
+    assert done.stdout.strip().splitlines()[-1] == "[]", done.stdout + done.stderr

@@ -6,7 +6,7 @@ import pytest
 
 from ledlint.config import Config, discover, from_mapping, load
 from ledlint.errors import ConfigError
-from ledlint.review.run import load_rules
+from ledlint.review.rules import load_rules
 from ledlint.checks.registry import settings
 
 

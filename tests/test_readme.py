@@ -9,7 +9,7 @@ import sys
 
 from paths import REPO as ROOT
 
-from ledlint.review.run import load_rules
+from ledlint.review.rules import load_rules
 
 README = (ROOT / "README.md").read_text(encoding="utf-8")
 

@@ -8,7 +8,8 @@ from board_rgb import rgb_status
 from board_worklight import work_light
 from paths import SAMPLES
 
-from ledlint.review.run import check, load_rules
+from ledlint.review.rules import load_rules
+from ledlint.review.run import check
 
 ERROR, WARNING, INFO = "error", "warning", "info"
 

@@ -11,7 +11,7 @@ import jsonschema
 import pytest
 
 from conftest import workshop_panel
-from ledlint.review.run import load_rules
+from ledlint.review.rules import load_rules
 from ledlint.report import sarif
 from ledlint.review.run import check
 from paths import REPO

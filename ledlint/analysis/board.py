@@ -67,8 +67,8 @@ def analyse(netlist: Netlist, config: Config) -> BoardAnalysis:
     given = config.ambient_set
     ambient = (f"ambient {config.ambient_min_c:g} to {config.ambient_max_c:g} °C "
                f"({config.path + ' [ambient]' if given else 'the default for an indoor product; set [ambient]'})")
-    done = tuple(replace(a, ambient_basis=ambient) if isinstance(a, Computed) else a for a in analyses)
-    done = tuple(replace(a, rail=_rail(graph, config, a.circuit)) for a in done)
+    done = tuple(replace(a, ambient_basis=ambient, rail=_rail(graph, config, a.circuit)) if isinstance(a, Computed)
+                 else replace(a, rail=_rail(graph, config, a.circuit)) for a in analyses)
     supplies = [(a.circuit.id, a.supply if isinstance(a, (Incomplete, Computed)) else None) for a in done]
     caution = cautions(netlist, [c.ends[0] for c in circuits], supplies, config)
     return BoardAnalysis(netlist, circuits, done, caution, FrozenMap({c.ref: c for c in netlist.components}))

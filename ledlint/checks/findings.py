@@ -3,11 +3,14 @@
 from __future__ import annotations
 
 import hashlib
-import string
 from dataclasses import dataclass, field
 from enum import Enum
 
 from ledlint.quantities.units import quantity
+
+
+# The thresholds a run can fail at: a severity and those above it, or never.
+FAIL_LEVELS = ("error", "warning", "info", "never")
 
 
 class Severity(Enum):
@@ -44,16 +47,9 @@ class Value:
         return quantity(self.value, self.unit, digits)
 
 
-class _Formatter(string.Formatter):
-    def format_field(self, value: object, format_spec: str) -> str:
-        if isinstance(value, Value):
-            return value.text()
-        return super().format_field(value, format_spec)
-
-
 def render(template: str, **args: object) -> str:
     """Fill a message template; Value arguments print with their units."""
-    return _Formatter().format(template, **args)
+    return template.format(**{k: v.text() if isinstance(v, Value) else v for k, v in args.items()})
 
 
 def fingerprint(rule: str, refs: tuple[str, ...], nets: tuple[str, ...], topic: str = "") -> str:

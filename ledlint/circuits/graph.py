@@ -8,8 +8,6 @@ from __future__ import annotations
 
 from typing import Iterator
 
-import networkx as nx
-
 from ledlint.netlist.model import Component, Net, Netlist, Pin
 
 
@@ -29,8 +27,10 @@ class NetGraph:
     """Connectivity queries over one netlist (read-only once built)."""
 
     def __init__(self, netlist: Netlist) -> None:
+        import networkx as nx  # loaded when a board is checked, not to list the rules
+
         self.netlist = netlist
-        g = nx.Graph()
+        g: nx.Graph[object] = nx.Graph()
         for net in netlist.nets:
             g.add_node(net_node(net.name), net=net)
         for comp in netlist.components:

@@ -61,8 +61,9 @@ def recognise(graph: NetGraph, config: Config) -> tuple[LedCircuit, ...]:
         out += _first(k.from_junction(ctx, j) for k in KINDS if k.from_junction)
     for span in _spans(ctx):
         for k in KINDS:  # each kind claims the strings it recognises; the rest go on to the next
-            free = tuple(s for s in span.segments if ctx.free(s))
-            out += k.from_span(ctx, Span(span.source, span.ret, free)) if k.from_span and free else ()
+            if k.from_span:
+                free = tuple(s for s in span.segments if ctx.free(s))
+                out += k.from_span(ctx, Span(span.source, span.ret, free)) if free else ()
     for k in KINDS:
         out += k.leftovers(ctx) if k.leftovers else ()
     return tuple(sorted(out, key=lambda c: natural(c.id)))

@@ -218,7 +218,8 @@ class Topology:
             used = {p for e in elems or () for p in (e.a, e.b)}
             for e in elems or ():
                 i = len(self.elements)
-                self.elements.append(replace(e, guard=guards.get(e.id, ""), held=self._held(comp, e)))
+                guard, held = guards.get(e.id, ""), self._held(comp, e)
+                self.elements.append(replace(e, guard=guard, held=held) if guard or held else e)
                 self.ends.setdefault(e.net_a, []).append((i, "a"))
                 self.ends.setdefault(e.net_b, []).append((i, "b"))
             for pin in comp.pins:

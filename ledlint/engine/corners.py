@@ -111,7 +111,11 @@ class Corners:
             raise ModelError(f"no corner named {name!r}; corners are {', '.join(self.names)}") from None
 
     def point(self, name: str) -> OperatingPoint:
-        return self.solution.point(self.index(name))
+        # Each named corner is read several times per circuit: built once.
+        cache: dict[str, OperatingPoint] = self.__dict__.setdefault("_points", {})
+        if name not in cache:
+            cache[name] = self.solution.point(self.index(name))
+        return cache[name]
 
     @property
     def nominal(self) -> OperatingPoint:

@@ -102,6 +102,15 @@ class Circuit:
         if self.ambient.minimum <= -ZERO_CELSIUS:
             raise ModelError(f"ambient must be above absolute zero, got {self.ambient.minimum!r} °C")
 
+    def __hash__(self) -> int:
+        # A board's solves are batched by circuit, so each is hashed many times over: once is enough.
+        cached: int | None = self.__dict__.get("_hash")
+        if cached is None:
+            cached = hash((self.branches, self.supply, self.drive_current, self.r_series, self.r_source,
+                           self.r_switch, self.v_switch, self.ambient))
+            self.__dict__["_hash"] = cached
+        return cached
+
     @property
     def current_driven(self) -> bool:
         return self.drive_current is not None

@@ -100,9 +100,9 @@ def decode(data: bytes, path: str = "") -> tuple[str, list[Note]]:
 
 
 def parse_netlist(text: str, path: str = "<string>", notes: list[Note] | None = None) -> Netlist:
-    """Parse netlist text into the model."""
-    root = parse(text, path)
-    return _Builder(root, path, Locator(text), list(notes or ())).build()
+    """Parse netlist text into the model, each component, net and library part as it is read."""
+    builder = _Builder(path, Locator(text), list(notes or ()))
+    return builder.build(parse(text, path, builder.take))
 
 
 def _atom(item: SList | None) -> str:
@@ -146,47 +146,146 @@ class _NodeInfo:
     line: int
 
 
+@dataclass(slots=True)
+class _Comp:
+    """A component as read, before the nets say where its pins go."""
+
+    ref: str
+    offset: int
+    value: str = ""
+    footprint: str = ""
+    datasheet: str = ""
+    description: str = ""
+    lib: str = ""
+    part: str = ""
+    fields: dict[str, str] = field(default_factory=dict)
+    properties: dict[str, str] = field(default_factory=dict)
+    sheet: str = "/"
+    units: bool = False  # KiCad 10 lists each unit's pins
+
+
+@dataclass(slots=True)
+class _Net:
+    """A net as read: its name, code, class and nodes (ref, pin, function, pin type, offset)."""
+
+    name: str
+    code: str
+    netclass: str
+    offset: int
+    nodes: list[tuple[str, str, str, str, int]]
+
+
+def _pairs(item: SList) -> dict[str, str]:
+    """A list's (key value) children as a mapping, the first of each key winning: (node (ref R1) (pin 2))."""
+    out: dict[str, str] = {}
+    for x in item[1:]:
+        if type(x) is SList and x and type(x[0]) is str and x[0] not in out:
+            out[x[0]] = _atom(x)
+    return out
+
+
+def _net(item: SList) -> _Net:
+    sec = _pairs(item)
+    nodes = []
+    for node in _sublists(item, "node"):
+        ns = _pairs(node)
+        nodes.append((ns.get("ref", ""), ns.get("pin", ""), ns.get("pinfunction", ""), ns.get("pintype", ""),
+                      node.offset))
+    return _Net(sec.get("name", ""), sec.get("code", ""), sec.get("class", ""), item.offset, nodes)
+
+
+def _comp(comp: SList) -> _Comp:
+    sec = _children(comp)
+    out = _Comp(_atom(sec.get("ref")), comp.offset)
+    out.value = _empty_marker(_atom(sec.get("value")))
+    out.footprint = _atom(sec.get("footprint"))
+    out.datasheet = _empty_marker(_atom(sec.get("datasheet")))
+    lib_sec = _pairs(sec["libsource"]) if "libsource" in sec else {}
+    out.lib, out.part = lib_sec.get("lib", ""), lib_sec.get("part", "")
+    own_description = "description" in sec
+    out.description = _atom(sec.get("description")) if own_description else lib_sec.get("description", "")
+    for f in _sublists(sec.get("fields"), "field"):
+        name = _pairs(f).get("name", "")
+        text = _atom(f)
+        # KiCad 8+ repeats its own Footprint/Datasheet/Description fields here (§1.4).
+        if (name == "Footprint" and text == out.footprint) or \
+                (name == "Datasheet" and _empty_marker(text) == out.datasheet) or \
+                (name == "Description" and own_description):
+            continue
+        if name:
+            out.fields.setdefault(name, text)
+    for p in _sublists(comp, "property"):
+        ps = _pairs(p)
+        name, text = ps.get("name", ""), ps.get("value", "")
+        if name.lower() in _KICAD_PROPERTIES or name.startswith("ki_"):
+            out.properties[name] = text
+        elif name:
+            out.fields.setdefault(name, text)
+    out.sheet = _pairs(sec["sheetpath"]).get("names", "") if "sheetpath" in sec else "/"
+    out.units = "units" in sec
+    return out
+
+
+# What the reader takes from the tree as each item closes: (section, item) heads.
+_TAKEN = {("components", "comp"), ("nets", "net"), ("libparts", "libpart")}
+
+
 @dataclass
 class _Builder:
-    root: SList
     path: str
     locator: Locator
     notes: list[Note]
     kicad10: bool = False
     version: str = ""
     libpins: dict[tuple[str, str], dict[str, tuple[str, str]]] = field(default_factory=dict)
+    comps: list[_Comp] = field(default_factory=list)
+    nets: list[_Net] = field(default_factory=list)
 
-    def note(self, item: SList, message: str) -> None:
-        line, col = self.locator.line_col(item.offset)
+    def take(self, item: SList, section: SList, root: SList) -> bool:
+        """Build a component, net or library part as soon as it is read, so the tree never holds
+        them all; only those of the first section of each kind count, as KiCad writes one."""
+        if (section.head, item.head) not in _TAKEN or root.head != "export":
+            return False
+        first = next((x for x in root if type(x) is SList and x and x[0] == section.head), None)
+        if first is not section:
+            return False
+        if item.head == "comp":
+            self.comps.append(_comp(item))
+        elif item.head == "net":
+            self.nets.append(_net(item))
+        else:
+            self._index_libpart(item)
+        return True
+
+    def note(self, offset: int, message: str) -> None:
+        line, col = self.locator.line_col(offset)
         self.notes.append(Note(line, col, message))
 
-    def line(self, item: SList) -> int:
-        return self.locator.line_col(item.offset)[0]
+    def line(self, offset: int) -> int:
+        return self.locator.line_col(offset)[0]
 
-    def fail(self, item: SList, message: str) -> InputError:
-        line, col = self.locator.line_col(item.offset)
+    def fail(self, offset: int, message: str) -> InputError:
+        line, col = self.locator.line_col(offset)
         return InputError(message, self.path, line, col)
 
-    def build(self) -> Netlist:
-        root = self.root
+    def build(self, root: SList) -> Netlist:
         if root.head != "export":
             what = _OTHER_ROOTS.get(root.head)
             if what:
-                raise self.fail(root, f"this is {what} ({root.head}), not a netlist; export the netlist "
+                raise self.fail(root.offset, f"this is {what} ({root.head}), not a netlist; export the netlist "
                                       "from the schematic editor")
-            raise self.fail(root, f"not a KiCad netlist: the file starts with '({root.head}', expected '(export'")
+            raise self.fail(root.offset, f"not a KiCad netlist: the file starts with '({root.head}', expected '(export'")
         sections = _children(root)
         version = self.version = _atom(sections.get("version"))
         if version not in ("D", "E"):
-            self.note(sections.get("version", root), f"unknown netlist version {version!r}; read as version E")
+            self.note(sections.get("version", root).offset, f"unknown netlist version {version!r}; read as version E")
         design = sections.get("design")
         dsec = _children(design) if design is not None else {}
         tool = _atom(dsec.get("tool"))
         self.kicad10 = "groups" in sections or "variants" in sections or _tool_major(tool) >= 10
-        self._index_libparts(sections.get("libparts"))
-        nodes, net_items = self._read_nets(sections.get("nets"))
+        nodes, net_items = self._read_nets()
         self.kicad10 = self.kicad10 or _numbered_functions(nodes)
-        components = self._read_components(sections.get("components"), nodes)
+        components = self._read_components(nodes)
         nets = self._assemble_nets(net_items, components)
         sheets = tuple(_sheet(_children(s)) for s in _sublists(design, "sheet"))
         return Netlist(
@@ -195,60 +294,51 @@ class _Builder:
             notes=tuple(self.notes),
         )
 
-    def _index_libparts(self, libparts: SList | None) -> None:
-        for lp in _sublists(libparts, "libpart"):
-            sec = _children(lp)
-            pins = {}
-            for p in _sublists(sec.get("pins"), "pin"):
-                ps = _children(p)
-                pins[_atom(ps.get("num"))] = (_empty_marker(_atom(ps.get("name"))), _atom(ps.get("type")))
-            lib = _atom(sec.get("lib"))
-            names = [_atom(sec.get("part"))] + [_atom(a) for a in _sublists(sec.get("aliases"), "alias")]
-            for name in names:
-                self.libpins.setdefault((lib, name), pins)
-                self.libpins.setdefault(("", name), pins)
+    def _index_libpart(self, lp: SList) -> None:
+        sec = _children(lp)
+        pins = {}
+        for p in _sublists(sec.get("pins"), "pin"):
+            ps = _pairs(p)
+            pins[ps.get("num", "")] = (_empty_marker(ps.get("name", "")), ps.get("type", ""))
+        lib = _atom(sec.get("lib"))
+        names = [_atom(sec.get("part"))] + [_atom(a) for a in _sublists(sec.get("aliases"), "alias")]
+        for name in names:
+            self.libpins.setdefault((lib, name), pins)
+            self.libpins.setdefault(("", name), pins)
 
-    def _read_nets(self, nets: SList | None) -> tuple[dict[tuple[str, str], _NodeInfo], list[tuple[SList, str]]]:
+    def _read_nets(self) -> tuple[dict[tuple[str, str], _NodeInfo], list[tuple[_Net, str]]]:
         nodes: dict[tuple[str, str], _NodeInfo] = {}
-        items: list[tuple[SList, str]] = []
+        items: list[tuple[_Net, str]] = []
         seen_names: set[str] = set()
-        for net in _sublists(nets, "net"):
-            sec = _children(net)
-            name = _atom(sec.get("name"))
-            if not name:
-                name = self._unnamed(net, sec, len(items) + 1, seen_names)
+        for net in self.nets:
+            name = net.name or self._unnamed(net, len(items) + 1, seen_names)
             if name in seen_names:
-                self.note(net, f"net name {name!r} appears twice; the second net's pins are merged into the first")
+                self.note(net.offset, f"net name {name!r} appears twice; the second net's pins are merged into the first")
             seen_names.add(name)
             items.append((net, name))
-            for node in _sublists(net, "node"):
-                ns = _children(node)
-                ref, pin = _atom(ns.get("ref")), _atom(ns.get("pin"))
+            for ref, pin, function, pintype, offset in net.nodes:
                 if not ref or ref.startswith("#"):
                     continue  # power symbols and flags are never parts (§4)
                 key = (ref, pin)
                 old = nodes.get(key)
                 if old is None:
-                    nodes[key] = _NodeInfo(name, _atom(ns.get("pinfunction")), _atom(ns.get("pintype")),
-                                           self.line(node))
+                    nodes[key] = _NodeInfo(name, function, pintype, self.line(offset))
                 elif old.net != name:
-                    self.note(node, f"pin {ref}.{pin} is on two nets, {old.net!r} and {name!r}; "
-                                    f"kept on {old.net!r}")
+                    self.note(offset, f"pin {ref}.{pin} is on two nets, {old.net!r} and {name!r}; kept on {old.net!r}")
         return nodes, items
 
-    def _unnamed(self, net: SList, sec: dict[str, SList], position: int, taken: set[str]) -> str:
+    def _unnamed(self, net: _Net, position: int, taken: set[str]) -> str:
         """A name for a net written without one. KiCad before 4.0 (the 2013 releases, version D)
         wrote "" for every net nobody named, told apart by code; later releases call such a net
         Net-(REF-PadN) after a pin on it (kicad-netlist-format.md, net-name shapes), so that name is given
         here. From a newer release an empty name means a hand-edited file: noted."""
-        first = next(iter(_sublists(net, "node")), None)
-        ref, pin = (_atom(_children(first).get(k)) for k in ("ref", "pin")) if first is not None else ("", "")
+        ref, pin = net.nodes[0][:2] if net.nodes else ("", "")
         if self.version == "D" and ref and pin:
             name = f"Net-({ref}-Pad{pin})"
             if name not in taken:
                 return name
-        name = f"(unnamed net {_atom(sec.get('code')) or position})"
-        self.note(net, f"a net without a name; reported as {name}")
+        name = f"(unnamed net {net.code or position})"
+        self.note(net.offset, f"a net without a name; reported as {name}")
         return name
 
     def _pin_name(self, function: str, number: str) -> str:
@@ -260,60 +350,33 @@ class _Builder:
                 return function[: -len(number) - 1]
         return function
 
-    def _read_components(self, comps: SList | None, nodes: dict[tuple[str, str], _NodeInfo]) -> tuple[Component, ...]:
+    def _read_components(self, nodes: dict[tuple[str, str], _NodeInfo]) -> tuple[Component, ...]:
         by_ref_nodes: dict[str, dict[str, _NodeInfo]] = {}
         for (ref, pin), info in nodes.items():
             by_ref_nodes.setdefault(ref, {})[pin] = info
         out: dict[str, Component] = {}
-        for comp in _sublists(comps, "comp"):
-            sec = _children(comp)
-            ref = _atom(sec.get("ref"))
-            if not ref:
-                raise self.fail(comp, "component without a reference, (ref …)")
-            if ref.startswith("#"):
+        for comp in self.comps:
+            if not comp.ref:
+                raise self.fail(comp.offset, "component without a reference, (ref …)")
+            if comp.ref.startswith("#"):
                 continue
-            if ref in out:
-                self.note(comp, f"reference {ref} appears twice (first at line {out[ref].line}); "
-                                "the second is ignored")
+            if comp.ref in out:
+                self.note(comp.offset, f"reference {comp.ref} appears twice (first at line {out[comp.ref].line}); "
+                                       "the second is ignored")
                 continue
-            if "units" in sec:
+            if comp.units:
                 self.kicad10 = True
-            out[ref] = self._component(comp, sec, ref, by_ref_nodes.pop(ref, {}))
+            out[comp.ref] = self._component(comp, by_ref_nodes.pop(comp.ref, {}))
         for ref, pins in by_ref_nodes.items():
             first = min(pins.values(), key=lambda i: i.line)
             self.notes.append(Note(first.line, 1, f"net node names {ref!r}, which is not among the components"))
         return tuple(out.values())
 
-    def _component(self, comp: SList, sec: dict[str, SList], ref: str, pin_nodes: dict[str, _NodeInfo]) -> Component:
-        value = _empty_marker(_atom(sec.get("value")))
-        footprint = _atom(sec.get("footprint"))
-        datasheet = _empty_marker(_atom(sec.get("datasheet")))
-        lib_sec = _children(sec["libsource"]) if "libsource" in sec else {}
-        lib, part = _atom(lib_sec.get("lib")), _atom(lib_sec.get("part"))
-        own_description = "description" in sec
-        description = _atom(sec.get("description")) if own_description else _atom(lib_sec.get("description"))
-        fields: dict[str, str] = {}
-        for f in _sublists(sec.get("fields"), "field"):
-            name = _atom(_children(f).get("name"))
-            text = _atom(f)
-            # KiCad 8+ repeats its own Footprint/Datasheet/Description fields here (§1.4).
-            if (name == "Footprint" and text == footprint) or (name == "Datasheet" and _empty_marker(text) == datasheet) \
-                    or (name == "Description" and own_description):
-                continue
-            if name:
-                fields.setdefault(name, text)
-        properties: dict[str, str] = {}
-        for p in _sublists(comp, "property"):
-            ps = _children(p)
-            name, text = _atom(ps.get("name")), _atom(ps.get("value"))
-            if name.lower() in _KICAD_PROPERTIES or name.startswith("ki_"):
-                properties[name] = text
-            elif name:
-                fields.setdefault(name, text)
-        dnp = "dnp" in properties or value.lower() in _DNP_VALUES or any(
+    def _component(self, c: _Comp, pin_nodes: dict[str, _NodeInfo]) -> Component:
+        fields, properties = c.fields, c.properties
+        dnp = "dnp" in properties or c.value.lower() in _DNP_VALUES or any(
             k.lower() in _DNP_FIELDS and v.strip().lower() in _DNP_TRUE for k, v in fields.items())
-        sheet = _atom(_children(sec["sheetpath"]).get("names")) if "sheetpath" in sec else "/"
-        libpins = self.libpins.get((lib, part)) or self.libpins.get(("", part)) or {}
+        libpins = self.libpins.get((c.lib, c.part)) or self.libpins.get(("", c.part)) or {}
         pins = []
         for number in sorted(set(libpins) | set(pin_nodes), key=_natural):
             lib_name, lib_type = libpins.get(number, ("", ""))
@@ -322,18 +385,18 @@ class _Builder:
                 base, _, flag = node.pintype.partition("+")
                 name = self._pin_name(node.function, number) if node.function else lib_name
                 type_text = base or lib_type
-                pins.append(Pin(ref, number, name, PinType.from_text(type_text), node.net, flag == "no_connect"))
+                pins.append(Pin(c.ref, number, name, PinType.from_text(type_text), node.net, flag == "no_connect"))
             else:
-                pins.append(Pin(ref, number, lib_name, PinType.from_text(lib_type), None))
+                pins.append(Pin(c.ref, number, lib_name, PinType.from_text(lib_type), None))
         return Component(
-            ref=ref, value=value, footprint=footprint, datasheet=datasheet, description=description,
-            lib=lib, part=part, fields=FrozenMap(fields), properties=FrozenMap(properties),
-            dnp=dnp, exclude_from_bom="exclude_from_bom" in properties, sheet=sheet or "/",
+            ref=c.ref, value=c.value, footprint=c.footprint, datasheet=c.datasheet, description=c.description,
+            lib=c.lib, part=c.part, fields=FrozenMap(fields), properties=FrozenMap(properties),
+            dnp=dnp, exclude_from_bom="exclude_from_bom" in properties, sheet=c.sheet or "/",
             exclude_from_board="exclude_from_board" in properties, exclude_from_sim="exclude_from_sim" in properties,
-            line=self.line(comp), pins=tuple(pins),
+            line=self.line(c.offset), pins=tuple(pins),
         )
 
-    def _assemble_nets(self, items: list[tuple[SList, str]], components: tuple[Component, ...]) -> tuple[Net, ...]:
+    def _assemble_nets(self, items: list[tuple[_Net, str]], components: tuple[Component, ...]) -> tuple[Net, ...]:
         pins_by_net: dict[str, list[Pin]] = {}
         for comp in components:
             for pin in comp.pins:
@@ -343,9 +406,8 @@ class _Builder:
         for item, name in items:
             if name in nets:
                 continue
-            sec = _children(item)
-            nets[name] = Net(code=_atom(sec.get("code")), name=name, netclass=_atom(sec.get("class")),
-                             pins=tuple(pins_by_net.get(name, ())), line=self.line(item))
+            nets[name] = Net(code=item.code, name=name, netclass=item.netclass,
+                             pins=tuple(pins_by_net.get(name, ())), line=self.line(item.offset))
         return tuple(nets.values())
 
 

@@ -12,6 +12,7 @@ from __future__ import annotations
 
 import re
 from bisect import bisect_right
+from typing import Callable
 
 from ledlint.errors import InputError
 
@@ -74,8 +75,13 @@ class Locator:
         return line, offset - self._starts[line - 1] + 1
 
 
-def parse(text: str, path: str = "") -> SList:
-    """Parse text holding exactly one top-level list; raise InputError at the faulty spot."""
+def parse(text: str, path: str = "", take: Callable[[SList, SList, SList], bool] | None = None) -> SList:
+    """Parse text holding exactly one top-level list; raise InputError at the faulty spot.
+
+    `take(item, section, root)` is offered each list two levels down (an export's components and
+    nets) as it closes, with the section and the top-level list that hold it; when it returns True
+    the caller has the item and the tree does not keep it, so a reader builds its model as it goes.
+    """
     locator = Locator(text)
 
     def fail(message: str, offset: int) -> InputError:
@@ -103,7 +109,9 @@ def parse(text: str, path: str = "") -> SList:
             stack.append(current)
             current = new
         elif kind == 2:
-            current = stack.pop()
+            done, current = current, stack.pop()
+            if take is not None and len(stack) == 2 and take(done, current, stack[1]):
+                current.pop()
         elif kind == 3:
             current.append(unescape(m.group(3)))
         elif kind == 4:

@@ -10,7 +10,7 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass
 from enum import Enum
-from typing import Iterable
+from typing import Iterable, NamedTuple
 
 from ledlint.netlist.model import Component, Pin, natural
 
@@ -45,11 +45,11 @@ class Die:
     cathode: str
 
 
-@dataclass(frozen=True)
-class LedId:
+class LedId(NamedTuple):
     """One light-emitting die: its part and the die's name in the package ("" for a one-die LED).
     Shown as "D4" or "D4:R"; a reference may hold any character, so the two are never split
-    back out of the text."""
+    back out of the text. (A named tuple: compared and hashed at C speed, as the recogniser
+    does for every string of a large board.)"""
 
     ref: str
     die: str = ""
@@ -98,6 +98,17 @@ _TWO_PIN_ALIASES = {"ANODE": "A", "CATHODE": "K", "+": "A", "-": "K"}
 
 def led_dies(component: Component) -> tuple[Die, ...]:
     """The dies of an LED package from its pin names; () when the pins do not read as an LED."""
+    hit = _DIES.get(id(component))
+    if hit is not None and hit[0] is component:
+        return hit[1]
+    if len(_DIES) >= _KINDS_MAX:
+        _DIES.clear()
+    dies = _led_dies(component)
+    _DIES[id(component)] = (component, dies)
+    return dies
+
+
+def _led_dies(component: Component) -> tuple[Die, ...]:
     names = {_pin_name(p): p.number for p in component.pins}
     named = {n: num for n, num in names.items() if n and n not in _EXPOSED_PAD}
     if len(named) == 2:  # house-library spellings of the two ends
@@ -181,6 +192,7 @@ def _transistor_kind(component: Component, text: str) -> Kind | None:
 # Kinds already worked out, by component identity (the entry keeps the component, so an id is
 # never reused while its entry stands): every stage asks, and the answer never changes.
 _KINDS: dict[int, tuple[Component, Kind]] = {}
+_DIES: dict[int, tuple[Component, tuple[Die, ...]]] = {}
 _KINDS_MAX = 250_000
 
 

@@ -8,6 +8,10 @@ from __future__ import annotations
 
 import re
 from dataclasses import dataclass
+from functools import lru_cache
+
+# Parsed once per distinct text: a board repeats the same values and footprints many times over.
+_cached = lru_cache(maxsize=8192)
 
 TEST_CURRENT = 0.020  # A: the usual datasheet test current for indicator LEDs (field-facts §5a)
 VR_MAX = 5.0  # V: the usual reverse-voltage rating, the IR leakage test condition (§5b)
@@ -88,6 +92,7 @@ def _wavelength(text: str) -> str | None:
     return "infrared"
 
 
+@_cached
 def colour_from_text(text: str) -> str | None:
     """The technology a part's words name ('red', 'green (GaP)', 'green', …), or None.
 
@@ -117,6 +122,7 @@ def die_colour(die_name: str) -> str | None:
     return _DIE_COLOURS.get(die_name.upper())
 
 
+@_cached
 def is_indicator_footprint(footprint: str) -> bool:
     """A small indicator package (chip 0402-1206, 3 mm / 5 mm through-hole, PLCC-2)."""
     return bool(_INDICATOR_FOOTPRINT.search(footprint.split(":")[-1]))

@@ -78,6 +78,8 @@ class _Text:
 
 def _lookup(component: Component, config: Config, key: str) -> _Text | None:
     """A named parameter's text from configuration or fields, in precedence order."""
+    if not component.fields and not (config.refs or config.values or config.symbols):
+        return None  # the usual part: nothing said of it but its value and footprint
     settings = config.part_settings(component.ref, component.value, component.lib, component.part)
     ref_only = config.part_settings(component.ref, "\0", "\0", "\0")
     if key in ref_only:

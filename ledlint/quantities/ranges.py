@@ -19,6 +19,9 @@ def finite(name: str, value: float) -> float:
     return float(value)
 
 
+_INF = math.inf
+
+
 @dataclass(frozen=True)
 class Range:
     """A parameter over its tolerance: nominal value and the extremes it can take."""
@@ -28,6 +31,9 @@ class Range:
     maximum: float
 
     def __post_init__(self) -> None:
+        lo, mid, hi = self.minimum, self.nominal, self.maximum
+        if type(lo) is float and type(mid) is float and type(hi) is float and -_INF < lo <= mid <= hi < _INF:
+            return  # the usual case, checked in one comparison: ranges are made by the hundred thousand
         for name in ("nominal", "minimum", "maximum"):
             finite(f"range {name}", getattr(self, name))
         if not self.minimum <= self.nominal <= self.maximum:

@@ -5,6 +5,10 @@ from __future__ import annotations
 import math
 import re
 from dataclasses import dataclass
+from functools import lru_cache
+
+# Parsed once per distinct text: a board repeats the same values and footprints many times over.
+_cached = lru_cache(maxsize=8192)
 
 # Rated ambient temperature of the P70 rating (IEC 60115-1 convention).
 RATED_AMBIENT_C = 70.0
@@ -148,6 +152,7 @@ def _power_rating(style: str, length_mm: float) -> PowerRating | None:
                        "that body (from memory); give the part a Power field", THICK_FILM_UCT_C)
 
 
+@_cached
 def rating_from_footprint(footprint: str) -> PowerRating | None:
     """Return the default 70 °C power rating a resistor footprint implies, or None when unknown.
 

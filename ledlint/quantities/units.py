@@ -6,8 +6,12 @@ import math
 import re
 from collections.abc import Callable, Iterator
 from dataclasses import dataclass
+from functools import lru_cache
 
 from ledlint.quantities.ratings import CHIP_SIZES
+
+# Parsed once per distinct text: a board repeats the same values and footprints many times over.
+_cached = lru_cache(maxsize=8192)
 
 
 @dataclass(frozen=True)
@@ -136,6 +140,7 @@ def _signed(sign: str | None, magnitude: float) -> float:
     return -magnitude if sign in ("-", "\u2212") else magnitude
 
 
+@_cached
 def parse_resistance(text: str) -> Parsed:
     """Read a resistance in ohms from IEC 60062 letter code ("4K7", "R47") or SI form ("4.7 kΩ").
 
@@ -269,6 +274,7 @@ def _only(candidates: list[Quantity]) -> Quantity | None:
     return candidates[0] if len(values) == 1 else None
 
 
+@_cached
 def parse_tolerance(text: str) -> Quantity | None:
     """Read a tolerance as a fraction: "1%", "±5 %", or an IEC 60062 letter ("F") as a whole token.
 
@@ -286,6 +292,7 @@ def parse_tolerance(text: str) -> Quantity | None:
     return _only(found)
 
 
+@_cached
 def parse_power(text: str) -> Quantity | None:
     """Read a power in watts: "0.25W", "1/4 W", "250mW", also inside value text ("1K, 1/4W 5%")."""
     text = _squeeze(text)
@@ -305,6 +312,7 @@ def parse_power(text: str) -> Quantity | None:
     return _only(found)
 
 
+@_cached
 def parse_voltage(text: str) -> Quantity | None:
     """Read a voltage in volts: "3.0V", "12 V", "-12V", "250mV", and the letter form "3V3"."""
     text = _squeeze(text)
@@ -322,6 +330,7 @@ def parse_voltage(text: str) -> Quantity | None:
     return _only(found)
 
 
+@_cached
 def parse_current(text: str) -> Quantity | None:
     """Read a current in amperes: "20mA", "0.35A", "350 mA", "500µA"."""
     text = _squeeze(text)
@@ -334,6 +343,7 @@ def parse_current(text: str) -> Quantity | None:
     return _only(found)
 
 
+@_cached
 def parse_vf(text: str) -> tuple[Quantity, Quantity | None] | None:
     """Read an LED forward voltage and its test current: "3.0V@20mA"; "2.1V" gives no current."""
     match = _VF.fullmatch(text)
@@ -353,6 +363,7 @@ def _whole(text: str, pattern: re.Pattern[str], parse: Callable[[str], Quantity 
     return parse(text) if pattern.fullmatch(text) else None
 
 
+@_cached
 def parse_thermal_resistance(text: str) -> Quantity | None:
     """Read a thermal resistance in K/W: "400K/W", "400 °C/W", or a bare "400"."""
     match = _THERMAL.fullmatch(text)
@@ -362,6 +373,7 @@ def parse_thermal_resistance(text: str) -> Quantity | None:
     return None if number is None else Quantity(number, text.strip())
 
 
+@_cached
 def parse_temperature(text: str) -> Quantity | None:
     """Read a temperature in degrees Celsius (not kelvin): "70°C", "70 C", "-40", "85 °C"."""
     match = _TEMPERATURE.fullmatch(text)

@@ -3,11 +3,9 @@
 from __future__ import annotations
 
 import gc
-import importlib
 import os
 from concurrent.futures import ProcessPoolExecutor
 from dataclasses import dataclass, replace
-from importlib.metadata import entry_points
 from pathlib import Path
 from contextlib import contextmanager
 from typing import Callable, Iterable, Iterator, Sequence
@@ -21,11 +19,9 @@ from ledlint.errors import ConfigError, LedlintError
 from ledlint.checks.findings import Finding, Severity
 from ledlint.netlist.model import Netlist
 from ledlint.netlist.kicad_net import read_netlist
-import ledlint.rules as builtin_rules
-from ledlint.checks.registry import Rule, RuleSettings, run_rules, settings, validate
+from ledlint.checks.registry import Rule, RuleSettings, run_rules, settings
+from ledlint.review.rules import load_rules
 
-FAIL_LEVELS = ("error", "warning", "info", "never")
-ENTRY_POINT_GROUP = "ledlint.rules"  # third-party rules: an entry point naming a Rule object
 _PARALLEL_FROM = 8  # files; below this, starting worker processes costs more than it saves
 
 
@@ -62,27 +58,6 @@ class RunResult:
             return False
         threshold = Severity(fail_on).rank
         return any(f.severity.rank >= threshold for f in self.findings)
-
-
-def load_rules(include_plugins: bool = True) -> tuple[Rule, ...]:
-    """The built-in rules (ledlint.rules), then plugins; duplicate or malformed ids fail loudly."""
-    found: dict[str, str] = {}
-    rules: list[Rule] = []
-
-    def add(candidate: object, where: str) -> None:
-        rule = validate(candidate, where)
-        if rule.id in found:
-            raise LedlintError(f"{where}: rule id {rule.id!r} is already defined by {found[rule.id]}")
-        found[rule.id] = where
-        rules.append(rule)
-
-    for name in builtin_rules.BUILTIN:
-        module = importlib.import_module(f"{builtin_rules.__name__}.{name}")
-        add(getattr(module, "RULE", None), module.__name__)
-    if include_plugins:
-        for ep in sorted(entry_points(group=ENTRY_POINT_GROUP), key=lambda e: e.name):
-            add(ep.load(), f"entry point {ep.name} ({ep.value})")
-    return tuple(rules)
 
 
 def field_waivers(netlist: Netlist, rule_ids: set[str]) -> list[Waiver]:

@@ -11,7 +11,7 @@ import pytest
 
 from ledlint.cli import main
 from ledlint.checks.registry import DOC_SECTIONS
-from ledlint.review.run import load_rules
+from ledlint.review.rules import load_rules
 
 RULES = {r.id: r for r in load_rules(include_plugins=False)}
 
