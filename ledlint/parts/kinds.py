@@ -10,7 +10,7 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass
 from enum import Enum
-from typing import Iterable, NamedTuple
+from typing import Callable, Iterable, NamedTuple, TypeVar
 
 from ledlint.netlist.model import Component, Pin, natural
 
@@ -98,14 +98,7 @@ _TWO_PIN_ALIASES = {"ANODE": "A", "CATHODE": "K", "+": "A", "-": "K"}
 
 def led_dies(component: Component) -> tuple[Die, ...]:
     """The dies of an LED package from its pin names; () when the pins do not read as an LED."""
-    hit = _DIES.get(id(component))
-    if hit is not None and hit[0] is component:
-        return hit[1]
-    if len(_DIES) >= _KINDS_MAX:
-        _DIES.clear()
-    dies = _led_dies(component)
-    _DIES[id(component)] = (component, dies)
-    return dies
+    return _remembered(_DIES, component, _led_dies)
 
 
 def _led_dies(component: Component) -> tuple[Die, ...]:
@@ -189,8 +182,7 @@ def _transistor_kind(component: Component, text: str) -> Kind | None:
         else None
 
 
-# Kinds already worked out, by component identity (the entry keeps the component, so an id is
-# never reused while its entry stands): every stage asks, and the answer never changes.
+# Kinds and LED dies already worked out, by component identity (see _remembered).
 _KINDS: dict[int, tuple[Component, Kind]] = {}
 _DIES: dict[int, tuple[Component, tuple[Die, ...]]] = {}
 _KINDS_MAX = 250_000
@@ -203,14 +195,24 @@ def led_parts(components: Iterable[Component]) -> int:
 
 def classify(component: Component) -> Kind:
     """The component's kind (see Kind)."""
-    hit = _KINDS.get(id(component))
+    return _remembered(_KINDS, component, _classify)
+
+
+_T = TypeVar("_T")
+
+
+def _remembered(store: dict[int, tuple[Component, _T]], component: Component,
+                work_out: Callable[[Component], _T]) -> _T:
+    """What `work_out` says of a component, worked out once: every stage asks, and the answer never
+    changes. Keyed by identity, the entry keeping the component so that its id is never reused."""
+    hit = store.get(id(component))
     if hit is not None and hit[0] is component:
         return hit[1]
-    if len(_KINDS) >= _KINDS_MAX:
-        _KINDS.clear()
-    kind = _classify(component)
-    _KINDS[id(component)] = (component, kind)
-    return kind
+    if len(store) >= _KINDS_MAX:
+        store.clear()
+    found = work_out(component)
+    store[id(component)] = (component, found)
+    return found
 
 
 def _classify(component: Component) -> Kind:
