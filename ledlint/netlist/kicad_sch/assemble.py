@@ -48,6 +48,7 @@ class _Assembler:
         self.design = design
         self.nets = nets
         self.notes: list[Note] = []
+        self.root_file = Path(design.root.path).name
 
     def sym(self, u: _Unit) -> PlacedSymbol:
         return self.design.instances[u.instance].file.symbols[u.symbol]
@@ -71,40 +72,45 @@ class _Assembler:
                 out.setdefault(ref, []).append(_Unit(i, k, self.nets.placements[i][k].unit))
         return out
 
-    def field(self, units: list[_Unit], name: str) -> str:
-        """The lowest unit's non-empty text for a mandatory field (the exporter's rule)."""
-        for u in sorted(units, key=lambda x: x.unit):
+    def mandatory(self, units: list[_Unit]) -> dict[str, str]:
+        """Value, footprint, datasheet and description: each the lowest unit's non-empty text
+        (the exporter's rule); KiCad 6's per-instance value and footprint come first."""
+        out: dict[str, str] = {}
+        for u in units:
             place = self.nets.placements[u.instance][u.symbol]
-            override = {"Value": place.value, "Footprint": place.footprint}.get(name)
-            text = override or self.sym(u).prop(name) or ""
-            if name in ("Value", "Datasheet"):
-                text = empty_marker(text)
-            if text:
-                return unescape(text)
-        return ""
+            own = dict(self.sym(u).properties)
+            texts = {"Value": place.value or own.get("Value", ""),
+                     "Footprint": place.footprint or own.get("Footprint", ""),
+                     "Datasheet": own.get("Datasheet", ""), "Description": own.get("Description", "")}
+            for name, text in texts.items():
+                text = empty_marker(text) if name in ("Value", "Datasheet") else text
+                if text and name not in out:
+                    out[name] = unescape(text)
+        return out
 
     def component(self, ref: str, units: list[_Unit]) -> Component:
-        first = min(units, key=lambda x: x.unit)
-        sym, lib, inst = self.sym(first), self.lib(first), self.design.instances[first.instance]
+        units = sorted(units, key=lambda x: x.unit)
+        sym, lib, inst = self.sym(units[0]), self.lib(units[0]), self.design.instances[units[0].instance]
         fields: dict[str, str] = {}
-        for u in sorted(units, key=lambda x: x.unit):
+        for u in units:
             for name, text in self.sym(u).properties:
                 if name not in _MANDATORY and not is_kicad_property(name):
                     fields.setdefault(name, unescape(text))
         for name, text in inst.record.properties if inst.record is not None else ():
             fields.setdefault(name, text)  # a sheet's own fields reach every part in it (§1.4)
         properties = {"Sheetname": inst.record.name if inst.record is not None else "",
-                      "Sheetfile": inst.record.file if inst.record is not None else Path(inst.file.path).name}
+                      "Sheetfile": inst.record.file if inst.record is not None else self.root_file}
         for key in ("ki_keywords", "ki_fp_filters"):
             if lib.prop(key):
                 properties[key] = lib.prop(key)
         flags = self.flags(units, inst)
         properties.update({name: "" for name, on in flags.items() if on})
-        value = self.field(units, "Value")
-        description = self.field(units, "Description") or lib.prop("Description") or lib.prop("ki_description")
+        texts = self.mandatory(units)
+        value = texts.get("Value", "")
+        description = texts.get("Description") or lib.prop("Description") or lib.prop("ki_description")
         lib_name, part = _lib_part(sym)
         return Component(
-            ref=ref, value=value, footprint=self.field(units, "Footprint"), datasheet=self.field(units, "Datasheet"),
+            ref=ref, value=value, footprint=texts.get("Footprint", ""), datasheet=texts.get("Datasheet", ""),
             description=description, lib=lib_name, part=part, fields=FrozenMap(fields),
             properties=FrozenMap(properties), dnp=flags["dnp"] or marked_dnp(value, fields),
             exclude_from_bom=flags["exclude_from_bom"], sheet=inst.names, line=sym.line,
@@ -128,10 +134,11 @@ class _Assembler:
         numbers: dict[str, LibPin] = {}
         for pin in lib.pins:
             numbers.setdefault(pin.number, pin)
+        alternates = [dict(self.sym(u).alternates) for u in units]
         out = []
         for number in sorted(numbers, key=natural):
             name, ptype, net = numbers[number].name, numbers[number].type, None
-            for u in units:
+            for u, chosen in zip(units, alternates):
                 key = PinAt(u.instance, u.symbol, number)
                 found = self.nets.pin_net.get(key)
                 if found is None:
@@ -141,8 +148,8 @@ class _Assembler:
                     continue
                 net = found
                 placed = self.nets.placed[key].pin
-                alternate = dict(self.sym(u).alternates).get(number)
-                alt_type = dict(placed.alternates).get(alternate or "")
+                alternate = chosen.get(number, "")
+                alt_type = dict(placed.alternates).get(alternate) if alternate else None
                 name, ptype = (alternate, alt_type) if alternate and alt_type else (placed.name, placed.type)
             out.append(Pin(ref, number, name, PinType.from_text(ptype), net))
         return tuple(out)

@@ -24,6 +24,7 @@ generated name, `unconnected-(…)` when one pin is all there is or a no-connect
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from typing import NamedTuple
 
 from ledlint.errors import InputError
 from ledlint.netlist.kicad_sch import geometry
@@ -39,8 +40,7 @@ _LABEL_RANKS = {LabelKind.LOCAL: Rank.LOCAL_LABEL, LabelKind.GLOBAL: Rank.GLOBAL
 NAMED_PIN_NAMES = 20211124
 
 
-@dataclass(frozen=True, slots=True)
-class PinAt:
+class PinAt(NamedTuple):
     """A placed pin: sheet instance, symbol index in that sheet's file, pin number."""
 
     instance: int
@@ -129,6 +129,7 @@ class _Builder:
         self.libs = [[_lib_of(design, i, k) for k in range(len(inst.file.symbols))]
                      for i, inst in enumerate(design.instances)]
         self.subgraphs: list[_Subgraph] = []
+        self.pin_names: dict[tuple[int, int, int], dict[str, list[tuple[str, bool]]]] = {}
         self.islands: dict[tuple[str, tuple[int, ...]], list[geometry.Island]] = {}
 
     def islands_of(self, i: int) -> list[geometry.Island]:
@@ -200,8 +201,15 @@ class _Builder:
     def pin_naming(self, i: int, pp: geometry.PlacedPin, place: Placement, lib: LibSymbol,
                    unconnected: bool) -> PinNaming:
         sym = self.design.instances[i].file.symbols[pp.symbol]
-        duplicate = any(q.name == pp.pin.name and q.number != pp.pin.number and (q.type == "no_connect") == unconnected
-                        for q in lib.pins if q.unit in (0, place.unit) and q.body in (0, sym.body))
+        key = (id(lib), place.unit, sym.body)
+        names = self.pin_names.get(key)
+        if names is None:
+            names = self.pin_names[key] = {}
+            for q in lib.pins:
+                if q.unit in (0, place.unit) and q.body in (0, sym.body):
+                    names.setdefault(q.name, []).append((q.number, q.type == "no_connect"))
+        # Another pin of the unit with this name makes the name ambiguous, so the pad is added.
+        duplicate = any(number != pp.pin.number and nc == unconnected for number, nc in names.get(pp.pin.name, ()))
         unit = unit_suffix(place.unit, self.design.unit_first, self.design.unit_separator) \
             if lib.unit_count > 1 else ""
         return PinNaming(place.ref, place.ref + unit, pp.pin.number, pp.pin.name, duplicate,

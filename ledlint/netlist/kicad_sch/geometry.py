@@ -167,8 +167,13 @@ def islands(sheet: SheetFile, pins: list[PlacedPin]) -> list[Island]:
             at[pp.at].append(p0 + k)
     for first, second in index.overlaps():
         union.join(first, second)
+    any_bus = any(s.bus for s in segs)
     for p, items in at.items():
         if len(items) < 2:
+            continue
+        if not any_bus:
+            for i in items[1:]:
+                union.join(items[0], i)
             continue
         buses = [i for i in items if i < n_seg and segs[i].bus]
         wires = [i for i in items if i < n_seg and not segs[i].bus]

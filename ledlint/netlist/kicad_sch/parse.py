@@ -8,7 +8,6 @@ skips what a newer version adds. Coordinates become integers in KiCad's schemati
 
 from __future__ import annotations
 
-import re
 from dataclasses import dataclass, field
 from enum import Enum
 from typing import Iterator
@@ -24,9 +23,20 @@ Transform = tuple[int, int, int, int]
 # KiCad's parser sets these for `(at x y angle)` of a placed symbol (library y points up,
 # the sheet's y down): sch_io_kicad_sexpr_parser.cpp, parseSchematicSymbol.
 _ROTATIONS: dict[int, Transform] = {0: (1, 0, 0, -1), 90: (0, -1, -1, 0), 180: (-1, 0, 0, 1), 270: (0, 1, 1, 0)}
-_NUMBER = re.compile(r"[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d{1,3})?")
+# Characters Python's float() takes that a KiCad number never holds (nan, inf, 1_0).
+_NOT_NUMERIC = frozenset("_nNiIaAfFtTyY")
 # A coordinate beyond ±1 km is no drawing; it would only make huge integers.
 _MAX_MM = 1e6
+
+
+def _decimal(text: object) -> float | None:
+    """A decimal number as KiCad writes one ("-2.54", "0", "1e-3"), or None."""
+    if type(text) is not str or not _NOT_NUMERIC.isdisjoint(text):
+        return None
+    try:
+        return float(text)
+    except ValueError:
+        return None
 
 
 class LabelKind(Enum):
@@ -190,9 +200,9 @@ class _Parser:
 
     def number(self, item: SList, index: int, what: str) -> float:
         text = self.text(item, index, what)
-        if not _NUMBER.fullmatch(text):
+        value = _decimal(text)
+        if value is None:
             raise self.fail(item, f"({item.head} …): {what} {text!r} is not a number")
-        value = float(text)
         if abs(value) > _MAX_MM:
             raise self.fail(item, f"({item.head} …): {what} {text} is out of range")
         return value
@@ -211,7 +221,11 @@ class _Parser:
     def point(self, item: SList | None, owner: SList, what: str = "a position") -> Point:
         if item is None:
             raise self.fail(owner, f"({owner.head} …) has no {what}")
-        return self.units(item, 1, "x"), self.units(item, 2, "y")
+        if len(item) > 2:
+            x, y = _decimal(item[1]), _decimal(item[2])
+            if x is not None and y is not None and abs(x) <= _MAX_MM and abs(y) <= _MAX_MM:
+                return round(x * UNITS_PER_MM), round(y * UNITS_PER_MM)
+        return self.units(item, 1, "x"), self.units(item, 2, "y")  # says what is wrong
 
     def at(self, owner: SList) -> Point:
         return self.point(_first(owner, "at"), owner, "position (at x y)")
@@ -225,16 +239,15 @@ class _Parser:
             return False
         raise self.fail(item, f"({item.head} {value}): expected yes or no")
 
+    def property(self, p: SList) -> tuple[str, str] | None:
+        """(name, value) of a (property "name" "value" …); None for a private one, which KiCad
+        8+ keeps out of netlists (NETLIST_EXPORTER_XML)."""
+        if len(p) > 3 and p[1] == "private" and type(p[3]) is str:
+            return None
+        return self.text(p, 1, "a field name"), self.text(p, 2, "a field value")
+
     def properties(self, item: SList) -> list[tuple[str, str]]:
-        out = []
-        for p in _subs(item):
-            if p[0] != "property":
-                continue
-            private = len(p) > 3 and p[1] == "private" and type(p[3]) is str
-            if private:
-                continue  # KiCad 8+ private fields stay out of netlists (NETLIST_EXPORTER_XML)
-            out.append((self.text(p, 1, "a field name"), self.text(p, 2, "a field value")))
-        return out
+        return [kv for p in _subs(item) if p[0] == "property" and (kv := self.property(p)) is not None]
 
     # -- library symbols ---------------------------------------------------------------
 
@@ -296,32 +309,45 @@ class _Parser:
     # -- placed items --------------------------------------------------------------------
 
     def symbol(self, item: SList) -> PlacedSymbol:
-        lib_id = self.text(_first(item, "lib_id") or item, 1, "(lib_id …)")
-        at_item = _first(item, "at")
+        heads: dict[str, SList] = {}
+        flags: list[tuple[str, bool]] = []
+        properties: list[tuple[str, str]] = []
+        alternates: list[tuple[str, str]] = []
+        instances: list[InstanceRef] = []
+        for sub in _subs(item):  # one pass: a placed symbol is the file's most frequent list
+            head = sub[0]
+            if head == "property":
+                kv = self.property(sub)
+                if kv is not None:
+                    properties.append(kv)
+            elif head == "pin":
+                alt = _first(sub, "alternate")
+                if alt is not None:
+                    alternates.append((self.text(sub, 1, "a pin number"), self.text(alt, 1, "an alternate name")))
+            elif head in _FLAGS:
+                flags.append((head, self.flag(sub)))
+            elif head == "instances":
+                instances.extend(self.instances(sub))
+            else:
+                heads.setdefault(head, sub)
+        lib_item = heads.get("lib_id")
+        if lib_item is None:
+            raise self.fail(item, "(symbol …) needs (lib_id …)")
+        at_item = heads.get("at")
         at = self.point(at_item, item, "position (at x y angle)")
-        assert at_item is not None  # point() raised otherwise
-        angle = int(self.number(at_item, 3, "angle")) if len(at_item) > 3 else 0
+        angle = int(self.number(at_item, 3, "angle")) if at_item is not None and len(at_item) > 3 else 0
         transform = _ROTATIONS.get(angle)
         if transform is None:
-            raise self.fail(at_item, f"symbol angle {at_item[3]} is not 0, 90, 180 or 270")
-        mirror = _first(item, "mirror")
+            raise self.fail(at_item or item, f"symbol angle {angle} is not 0, 90, 180 or 270")
+        mirror = heads.get("mirror")
         if mirror is not None:
             transform = _mirrored(transform, self.text(mirror, 1, "x or y"), self, mirror)
-        body_item = _first(item, "body_style") or _first(item, "convert")
-        flags = tuple((sub[0], self.flag(sub)) for sub in _subs(item)
-                      if sub[0] in ("in_bom", "on_board", "dnp", "exclude_from_sim"))
-        alternates = []
-        instances: list[InstanceRef] = []
-        for sub in _subs(item):
-            if sub[0] == "pin" and (alt := _first(sub, "alternate")) is not None:
-                alternates.append((self.text(sub, 1, "a pin number"), self.text(alt, 1, "an alternate name")))
-            elif sub[0] == "instances":
-                instances.extend(self.instances(sub))
         line, column = self.line(item)
         return PlacedSymbol(
-            lib_id=lib_id, lib_name=self.opt_text(_first(item, "lib_name")), at=at, transform=transform,
-            unit=self.integer(_first(item, "unit"), 1, "unit"), body=self.integer(body_item, 1, "body style"),
-            uuid=self.opt_text(_first(item, "uuid")), flags=flags, properties=tuple(self.properties(item)),
+            lib_id=self.text(lib_item, 1, "a library symbol name"), lib_name=self.opt_text(heads.get("lib_name")),
+            at=at, transform=transform, unit=self.integer(heads.get("unit"), 1, "unit"),
+            body=self.integer(heads.get("body_style") or heads.get("convert"), 1, "body style"),
+            uuid=self.opt_text(heads.get("uuid")), flags=tuple(flags), properties=tuple(properties),
             alternates=tuple(alternates), instances=tuple(instances), line=line, column=column,
         )
 
@@ -356,8 +382,7 @@ class _Parser:
         file_prop = next(p for p in _subs(item) if p[0] == "property" and p[1] in ("Sheetfile", "Sheet file"))
         line, column = self.line(file_prop)
         user = tuple((k, v) for k, v in props if k not in _SHEET_OWN)
-        flags = tuple((sub[0], self.flag(sub)) for sub in _subs(item)
-                      if sub[0] in ("in_bom", "on_board", "dnp", "exclude_from_sim"))
+        flags = tuple((sub[0], self.flag(sub)) for sub in _subs(item) if sub[0] in _FLAGS)
         return SheetRecord(self.opt_text(_first(item, "uuid")), name, file, pins, user, flags, tuple(pages),
                            line, column)
 
@@ -374,6 +399,7 @@ class _Parser:
 
 
 _SHEET_OWN = frozenset({"Sheetname", "Sheetfile", "Sheet name", "Sheet file"})
+_FLAGS = frozenset({"in_bom", "on_board", "dnp", "exclude_from_sim"})
 
 
 def _mirrored(t: Transform, axis: str, parser: _Parser, item: SList) -> Transform:

@@ -21,8 +21,10 @@ from ledlint.errors import InputError, byte_position, failure_reason
 from ledlint.netlist.kicad_fields import natural
 from ledlint.netlist.model import Note
 from ledlint.netlist.sexpr import Locator, parse
-from ledlint.netlist.kicad_sch.parse import InstanceRef, PlacedSymbol, SheetFile, SheetRecord, parse_sheet_file
-from ledlint.netlist.kicad_sch.scan import blank_unused
+from ledlint.netlist.kicad_sch.parse import (
+    InstanceRef, PlacedSymbol, Segment, SheetFile, SheetRecord, parse_sheet_file,
+)
+from ledlint.netlist.kicad_sch.scan import scan
 
 # Far beyond any real design (KiCad's own 20,000-part boards have a few hundred sheets); a
 # stop for a hierarchy that multiplies itself.
@@ -157,11 +159,16 @@ def load_file(path: Path) -> tuple[SheetFile, list[Note]]:
         offset = len(text) - len(text.lstrip())
         line, col = Locator(text).line_col(offset)
         raise InputError(problem, name, line, col)
+    rest, lifted = scan(text)
     try:
-        tree = parse(blank_unused(text), name)
+        tree = parse(rest, name)
     except InputError as exc:  # the scanner words its messages for netlists
         raise InputError(exc.message.replace("netlist", "schematic"), exc.path, exc.line, exc.column) from None
-    return parse_sheet_file(tree, name, Locator(text)), notes
+    sheet = parse_sheet_file(tree, name, Locator(text))
+    sheet.segments += [Segment((x1, y1), (x2, y2), bus) for x1, y1, x2, y2, bus in lifted.wires]
+    sheet.junctions += lifted.junctions
+    sheet.no_connects += lifted.no_connects
+    return sheet, notes
 
 
 def _project_settings(project: Path, design: Design) -> None:
