@@ -21,10 +21,9 @@ from xml.parsers import expat
 
 from ledlint.errors import InputError, failure_reason
 from ledlint.frozen import FrozenMap
-from ledlint.netlist.kicad_fields import empty_marker, is_kicad_property, marked_dnp, natural
+from ledlint.netlist.kicad_common import empty_marker, is_kicad_property, marked_dnp, natural, read_bytes
 from ledlint.netlist.model import Component, Net, Netlist, Note, Pin, PinType, Sheet
 
-MAX_BYTES = 1 << 30
 MAX_DEPTH = 100  # KiCad nests about eight levels deep
 
 
@@ -107,17 +106,7 @@ def _tree(data: bytes, path: str) -> _Element:
 def read_xml_netlist(path: str | Path) -> Netlist:
     """Read an XML netlist; every problem with the input is an InputError."""
     name = str(path)
-    try:
-        with open(path, "rb") as fh:
-            data = fh.read(MAX_BYTES + 1)
-    except FileNotFoundError:
-        raise InputError("no such file", name) from None
-    except IsADirectoryError:
-        raise InputError("is a folder, not a netlist file", name) from None
-    except OSError as exc:
-        raise InputError(f"cannot read: {failure_reason(exc)}", name) from None
-    if len(data) > MAX_BYTES:
-        raise InputError(f"larger than {MAX_BYTES >> 30} GiB: not a KiCad netlist", name)
+    data = read_bytes(path, "netlist file")
     return parse_xml_netlist(data, name)
 
 

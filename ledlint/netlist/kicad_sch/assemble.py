@@ -16,7 +16,7 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from ledlint.frozen import FrozenMap
-from ledlint.netlist.kicad_fields import empty_marker, is_kicad_property, marked_dnp, natural
+from ledlint.netlist.kicad_common import empty_marker, is_kicad_property, marked_dnp, natural
 from ledlint.netlist.kicad_sch.connect import Nets, PinAt
 from ledlint.netlist.kicad_sch.naming import unescape
 from ledlint.netlist.kicad_sch.parse import LibPin, LibSymbol, PlacedSymbol

@@ -81,32 +81,19 @@ class Nets:
     bus_pins: list[PinAt] = field(default_factory=list)
 
 
-class _Union:
-    def __init__(self) -> None:
-        self.parent: list[int] = []
-        self.keys: dict[tuple[str, ...], int] = {}
+class _Union(geometry.UnionFind):
+    """Union-find over subgraphs and over names: a name is a node too, so everything that
+    carries it lands in one set."""
 
-    def add(self) -> int:
-        self.parent.append(len(self.parent))
-        return len(self.parent) - 1
+    def __init__(self) -> None:
+        super().__init__()
+        self.keys: dict[tuple[str, ...], int] = {}
 
     def key(self, key: tuple[str, ...]) -> int:
         got = self.keys.get(key)
         if got is None:
             got = self.keys[key] = self.add()
         return got
-
-    def find(self, i: int) -> int:
-        parent = self.parent
-        while parent[i] != i:
-            parent[i] = parent[parent[i]]
-            i = parent[i]
-        return i
-
-    def join(self, a: int, b: int) -> None:
-        ra, rb = self.find(a), self.find(b)
-        if ra != rb:
-            self.parent[rb] = ra
 
 
 def _lib_of(design: Design, inst: int, k: int) -> LibSymbol:

@@ -107,9 +107,15 @@ class _Segments:
         return out
 
 
-class _Union:
-    def __init__(self, size: int) -> None:
+class UnionFind:
+    """Disjoint sets of item numbers, joined pairwise."""
+
+    def __init__(self, size: int = 0) -> None:
         self.parent = list(range(size))
+
+    def add(self) -> int:
+        self.parent.append(len(self.parent))
+        return len(self.parent) - 1
 
     def find(self, i: int) -> int:
         parent = self.parent
@@ -138,7 +144,7 @@ def islands(sheet: SheetFile, pins: list[PlacedPin]) -> list[Island]:
     s0 = l0 + len(sheet.labels)
     sheet_pins = [(k, sp) for k, record in enumerate(sheet.sheets) for sp in record.pins]
     p0 = s0 + len(sheet_pins)
-    union = _Union(p0 + len(pins))
+    union = UnionFind(p0 + len(pins))
     at: dict[Point, list[int]] = defaultdict(list)
     for i, s in enumerate(segs):
         at[s.a].append(i)

@@ -96,6 +96,9 @@ class Bus:
         return None
 
 
+_RANGE = re.compile(r"\[(\d+)\.\.(\d+)\]")
+
+
 def _markup_brace(text: str, i: int) -> bool:
     # `_{…}`, `^{…}` and `~{…}` are sub-, superscript and overbar markup, not bus braces.
     return i > 0 and text[i - 1] in "_^~"
@@ -117,7 +120,7 @@ def _vector(text: str) -> tuple[str, list[str]] | None:
         elif c in " ]":
             return None
         i += 1
-    m = re.compile(r"\[(\d+)\.\.(\d+)\]").match(text, i)
+    m = _RANGE.match(text, i)
     if m is None:
         return None
     suffix = text[m.end():]

@@ -17,8 +17,8 @@ import os
 from dataclasses import dataclass, field
 from pathlib import Path
 
-from ledlint.errors import InputError, byte_position, failure_reason
-from ledlint.netlist.kicad_fields import natural
+from ledlint.errors import InputError, byte_position
+from ledlint.netlist.kicad_common import natural, read_bytes
 from ledlint.netlist.model import Note
 from ledlint.netlist.sexpr import Locator, parse
 from ledlint.netlist.kicad_sch.parse import (
@@ -29,7 +29,6 @@ from ledlint.netlist.kicad_sch.scan import scan
 # Far beyond any real design (KiCad's own 20,000-part boards have a few hundred sheets); a
 # stop for a hierarchy that multiplies itself.
 MAX_INSTANCES = 20_000
-MAX_BYTES = 1 << 30
 # Root file versions at which KiCad changed how it reads older files (schematic.cpp).
 PER_SYMBOL_INSTANCES = 20221002
 VALUE_NAMES_POWER_NETS = 20230221
@@ -98,22 +97,6 @@ class Design:
 def _matching(entries: tuple[InstanceRef, ...], path: str, project: str) -> InstanceRef | None:
     hits = [e for e in entries if e.path == path]
     return next((e for e in hits if e.project == project), hits[0] if hits else None)
-
-
-def read_bytes(path: Path, what: str) -> bytes:
-    name = str(path)
-    try:
-        with open(path, "rb") as fh:
-            data = fh.read(MAX_BYTES + 1)
-    except FileNotFoundError:
-        raise InputError("no such file", name) from None
-    except IsADirectoryError:
-        raise InputError(f"is a folder, not a {what}", name) from None
-    except OSError as exc:
-        raise InputError(f"cannot read: {failure_reason(exc)}", name) from None
-    if len(data) > MAX_BYTES:
-        raise InputError(f"larger than {MAX_BYTES >> 30} GiB: not a {what}", name)
-    return data
 
 
 def _decode(data: bytes, name: str, notes: list[Note]) -> str:

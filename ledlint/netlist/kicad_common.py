@@ -1,13 +1,20 @@
-"""KiCad's own component properties and the do-not-populate conventions, for the schematic and XML readers.
+"""What the schematic and XML readers share: reading a file, KiCad's own properties, DNP conventions.
 
-The same conventions as the s-expression netlist reader (kicad_net.py), which keeps its own
-copy: kicad-netlist-format.md §1.4 and §5.
+The conventions are the s-expression netlist reader's (kicad_net.py, which keeps its own copy):
+kicad-netlist-format.md §1.4 and §5.
 """
 
 from __future__ import annotations
 
 import re
+from pathlib import Path
 from typing import Mapping
+
+from ledlint.errors import InputError, failure_reason
+
+# Far beyond any KiCad file (a 20,000-part board's netlist is 15 MB), and a stop for endless
+# inputs such as a device or a pipe.
+MAX_BYTES = 1 << 30
 
 # Properties KiCad writes for its own purposes, as opposed to the user's fields.
 KICAD_PROPERTIES = frozenset(
@@ -40,3 +47,20 @@ def marked_dnp(value: str, fields: Mapping[str, str]) -> bool:
 def natural(text: str) -> tuple[tuple[int, int | str], ...]:
     """KiCad's StrNumCmp order: digit runs compare as numbers (R2 before R10)."""
     return tuple((0, int(p)) if p.isdigit() else (1, p) for p in _DIGITS.split(text) if p)
+
+
+def read_bytes(path: str | Path, what: str) -> bytes:
+    """A file's bytes; a missing, unreadable or oversized file is an InputError naming it."""
+    name = str(path)
+    try:
+        with open(path, "rb") as fh:
+            data = fh.read(MAX_BYTES + 1)
+    except FileNotFoundError:
+        raise InputError("no such file", name) from None
+    except IsADirectoryError:
+        raise InputError(f"is a folder, not a {what}", name) from None
+    except OSError as exc:
+        raise InputError(f"cannot read: {failure_reason(exc)}", name) from None
+    if len(data) > MAX_BYTES:
+        raise InputError(f"larger than {MAX_BYTES >> 30} GiB: not a {what}", name)
+    return data
