@@ -185,3 +185,16 @@ def test_a_sheet_used_twice_has_references_per_instance() -> None:
     }
     assert [(s.number, s.name) for s in n.sheets] == [("1", "/"), ("2", "/ch1/"), ("3", "/ch2/")]
     assert n.path.endswith("dimmer.kicad_sch") and n.version == "E" and "20231120" in n.tool
+
+
+def test_a_stacked_pin_stands_for_each_of_its_pads() -> None:
+    # KiCad 10's stacked pin notation (string_utils.h, ExpandStackedPinNotation: "[1-4]" ->
+    # 1, 2, 3, 4; "[AA1-AA3,AB4]" -> AA1, AA2, AA3, AB4): one drawn pin, one netlist node per
+    # pad; an unconnected one is named after its lowest pad (KiCad's change that introduced it:
+    # "Automatic net naming proceeds based on the smallest logical pin number in stacked groups").
+    n = _read("stacked_pins.kicad_sch")
+    u1 = n.component("U1")
+    assert u1 is not None
+    assert [(p.number, p.name, p.net) for p in u1.pins] == [
+        ("1", "IN", "+5V"), ("2", "GND", "GND"), ("3", "OUT", "unconnected-(U1-OUT-Pad3)"),
+        ("4", "GND", "GND"), ("5", "GND", "GND"), ("6", "OUT", "unconnected-(U1-OUT-Pad3)")]

@@ -18,7 +18,7 @@ from pathlib import Path
 from ledlint.frozen import FrozenMap
 from ledlint.netlist.kicad_common import empty_marker, is_kicad_property, marked_dnp, natural
 from ledlint.netlist.kicad_sch.connect import Nets, PinAt
-from ledlint.netlist.kicad_sch.naming import unescape
+from ledlint.netlist.kicad_sch.naming import stacked_numbers, unescape
 from ledlint.netlist.kicad_sch.parse import LibPin, LibSymbol, PlacedSymbol
 from ledlint.netlist.kicad_sch.read import Design, SheetInstance
 from ledlint.netlist.model import Component, Net, Netlist, Note, Pin, PinType, Sheet
@@ -88,7 +88,7 @@ class _Assembler:
                     out[name] = unescape(text)
         return out
 
-    def component(self, ref: str, units: list[_Unit]) -> Component:
+    def component(self, ref: str, units: list[_Unit], flagged: set[tuple[str, str]]) -> Component:
         units = sorted(units, key=lambda x: x.unit)
         sym, lib, inst = self.sym(units[0]), self.lib(units[0]), self.design.instances[units[0].instance]
         fields: dict[str, str] = {}
@@ -114,7 +114,7 @@ class _Assembler:
             description=description, lib=lib_name, part=part, fields=FrozenMap(fields),
             properties=FrozenMap(properties), dnp=flags["dnp"] or marked_dnp(value, fields),
             exclude_from_bom=flags["exclude_from_bom"], sheet=inst.names, line=sym.line,
-            pins=self.pins(ref, units), file=inst.file.path, exclude_from_board=flags["exclude_from_board"],
+            pins=self.pins(ref, units, flagged), file=inst.file.path, exclude_from_board=flags["exclude_from_board"],
             exclude_from_sim=flags["exclude_from_sim"],
         )
 
@@ -129,15 +129,16 @@ class _Assembler:
             "exclude_from_sim": sim_off or inst.flags.get("exclude_from_sim", False),
         }
 
-    def pins(self, ref: str, units: list[_Unit]) -> tuple[Pin, ...]:
+    def pins(self, ref: str, units: list[_Unit], flagged: set[tuple[str, str]]) -> tuple[Pin, ...]:
+        """Every pad of the symbol, placed units or not, KiCad 10's stacked pins one per pad."""
         lib = self.lib(units[0])
         numbers: dict[str, LibPin] = {}
         for pin in lib.pins:
             numbers.setdefault(pin.number, pin)
         alternates = [dict(self.sym(u).alternates) for u in units]
         out = []
-        for number in sorted(numbers, key=natural):
-            name, ptype, net = numbers[number].name, numbers[number].type, None
+        for number, drawn in numbers.items():
+            name, ptype, net = drawn.name, drawn.type, None
             for u, chosen in zip(units, alternates):
                 key = PinAt(u.instance, u.symbol, number)
                 found = self.nets.pin_net.get(key)
@@ -151,8 +152,9 @@ class _Assembler:
                 alternate = chosen.get(number, "")
                 alt_type = dict(placed.alternates).get(alternate) if alternate else None
                 name, ptype = (alternate, alt_type) if alternate and alt_type else (placed.name, placed.type)
-            out.append(Pin(ref, number, name, PinType.from_text(ptype), net))
-        return tuple(out)
+            kind = PinType.from_text(ptype)
+            out += [Pin(ref, pad, name, kind, net, (ref, number) in flagged) for pad in stacked_numbers(number)]
+        return tuple(sorted(out, key=lambda p: natural(p.number)))
 
     def no_connect_pins(self) -> set[tuple[str, str]]:
         """(ref, number) of pins alone, or stacked alone, on a net with a no-connect flag."""
@@ -171,10 +173,8 @@ class _Assembler:
         return out
 
     def build(self, tool: str) -> Netlist:
-        components = [self.component(ref, units) for ref, units in self.units_by_ref().items()]
         flagged = self.no_connect_pins()
-        components = [c if not any((c.ref, p.number) in flagged for p in c.pins) else _with_flags(c, flagged)
-                      for c in components]
+        components = [self.component(ref, units, flagged) for ref, units in self.units_by_ref().items()]
         by_net: dict[str, list[Pin]] = {}
         for c in components:
             for p in c.pins:
@@ -190,14 +190,6 @@ class _Assembler:
         root = self.design.root
         return Netlist(path=root.path, version="E", tool=tool, source=root.path, sheets=sheets,
                        components=tuple(components), nets=nets, notes=tuple(notes + self.notes))
-
-
-def _with_flags(c: Component, flagged: set[tuple[str, str]]) -> Component:
-    pins = tuple(Pin(p.ref, p.number, p.name, p.type, p.net, (p.ref, p.number) in flagged) for p in c.pins)
-    return Component(ref=c.ref, value=c.value, footprint=c.footprint, datasheet=c.datasheet,
-                     description=c.description, lib=c.lib, part=c.part, fields=c.fields, properties=c.properties,
-                     dnp=c.dnp, exclude_from_bom=c.exclude_from_bom, sheet=c.sheet, line=c.line, pins=pins,
-                     file=c.file, exclude_from_board=c.exclude_from_board, exclude_from_sim=c.exclude_from_sim)
 
 
 def _located(path: str, root: str, notes: list[Note]) -> list[Note]:

@@ -29,8 +29,9 @@ from typing import NamedTuple
 from ledlint.errors import InputError
 from ledlint.netlist.kicad_sch import geometry
 from ledlint.netlist.kicad_sch.naming import (
-    Bus, PinNaming, Rank, escape_net_name, low_quality, parse_bus, pin_net_name, unit_suffix,
+    Bus, PinNaming, Rank, escape_net_name, low_quality, parse_bus, pin_net_name, stacked_numbers, unit_suffix,
 )
+from ledlint.netlist.kicad_common import natural
 from ledlint.netlist.kicad_sch.parse import LabelKind, LibSymbol
 from ledlint.netlist.kicad_sch.read import VALUE_NAMES_POWER_NETS, Design, Placement
 
@@ -199,7 +200,9 @@ class _Builder:
         duplicate = any(number != pp.pin.number and nc == unconnected for number, nc in names.get(pp.pin.name, ()))
         unit = unit_suffix(place.unit, self.design.unit_first, self.design.unit_separator) \
             if lib.unit_count > 1 else ""
-        return PinNaming(place.ref, place.ref + unit, pp.pin.number, pp.pin.name, duplicate,
+        # A stacked pin is named after its lowest pad (KiCad 10).
+        number = min(stacked_numbers(pp.pin.number), key=natural)
+        return PinNaming(place.ref, place.ref + unit, number, pp.pin.name, duplicate,
                          not place.ref.endswith("?"), sym.uuid)
 
     def build(self) -> Nets:

@@ -249,6 +249,33 @@ def pin_net_name(p: PinNaming, unconnected: bool, named_form: bool) -> str:
     return f"{head}{p.ref}-Pad{number if named_form else p.number})"
 
 
+_PAD = re.compile(r"(.*?)(\d+)")
+
+
+def stacked_numbers(number: str) -> list[str]:
+    """The pad numbers of a KiCad 10 stacked pin: `[1,2,3]`, `[1-4]`, `[A1-A3,B7]` (one pin
+    drawn for several pads; string_utils.h, ExpandStackedPinNotation). Any other number, or a
+    malformed list, is the one number it reads."""
+    if len(number) < 3 or number[0] != "[" or number[-1] != "]":
+        return [number]
+    out: list[str] = []
+    for part in (p.strip() for p in number[1:-1].split(",")):
+        lo, dash, hi = part.partition("-")
+        if not dash:
+            if not part:
+                return [number]
+            out.append(part)
+            continue
+        first, last = _PAD.fullmatch(lo.strip()), _PAD.fullmatch(hi.strip())
+        if first is None or last is None or first.group(1) != last.group(1):
+            return [number]
+        a, b = int(first.group(2)), int(last.group(2))
+        if not a <= b <= a + _MAX_MEMBERS:
+            return [number]
+        out.extend(f"{first.group(1)}{k}" for k in range(a, b + 1))
+    return out
+
+
 def low_quality(name: str) -> bool:
     """A generated name that only numbers a pad; KiCad prefers any other name of equal rank."""
     return "-Pad" in name
