@@ -1,5 +1,6 @@
-"""A connected design to the Netlist model: components with their fields, pins and nets, as KiCad's
-netlist exporter lays them out (eeschema/netlist_exporters/netlist_exporter_xml.cpp).
+"""A connected design to the Netlist model, laid out as KiCad's netlist exporter lays it out.
+
+Source: eeschema/netlist_exporters/netlist_exporter_xml.cpp.
 
 * One component per reference; the units of a multi-unit symbol merge, each field taken from
   the lowest unit that fills it. Symbols whose reference starts with '#' (power symbols,

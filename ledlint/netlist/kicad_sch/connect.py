@@ -72,7 +72,7 @@ class _Subgraph:
 
 @dataclass
 class Nets:
-    """Every placed pin's net, which nets carry a no-connect flag, and what was noticed."""
+    """Every placed pin's net, the nets that carry a no-connect flag, the pins left on a bus."""
 
     placements: list[list[Placement]]
     libs: list[list[LibSymbol]]
