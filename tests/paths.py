@@ -11,6 +11,10 @@ SAMPLES = REPO / "sample_boards"
 # The real netlists live beside the repository and are read in place, never copied;
 # LEDLINT_CORPUS names another folder for a checkout kept elsewhere.
 CORPUS = Path(os.environ.get("LEDLINT_CORPUS") or REPO.parent / "shared" / "corpus" / "real")
+# Schematics paired with the netlist KiCad exported from them (its MANIFEST.md says where each
+# pair comes from); read in place like CORPUS, LEDLINT_SCHEMATICS names another folder.
+SCHEMATICS = Path(os.environ.get("LEDLINT_SCHEMATICS") or REPO.parent / "shared" / "corpus" / "schematic")
+SCHEMATIC_FIXTURES = FIXTURES / "schematic"
 
 
 def corpus_files() -> list[Path]:

@@ -219,3 +219,15 @@ def test_old_mac_line_endings_still_give_line_numbers() -> None:
     with pytest.raises(InputError) as info:
         parse_netlist(text, "cr.net")
     assert info.value.line == 3
+
+
+def test_a_release_that_names_itself_keeps_pin_names_that_end_in_their_number() -> None:
+    # KiCad 7.0.5 exported a connector whose pins are named Pin_1..Pin_3 (KiCad's own QA netlist
+    # bus_connection.net); only KiCad 10 writes name_number, so a 7.0 tool line rules that out
+    # (kicad-netlist-format.md §3.2).
+    n = parse_netlist('(export (version "E") (design (tool "Eeschema 7.0.5-1-g5c5f077a4a-dirty"))'
+                      ' (components (comp (ref "J1") (value "Conn_01x03")))'
+                      ' (nets (net (code "1") (name "/top.x") (node (ref "J1") (pin "1") (pinfunction "Pin_1")))'
+                      ' (net (code "2") (name "/top.y") (node (ref "J1") (pin "2") (pinfunction "Pin_2")))'
+                      ' (net (code "3") (name "/top.z") (node (ref "J1") (pin "3") (pinfunction "Pin_3")))))')
+    assert [p.name for p in n.component("J1").pins] == ["Pin_1", "Pin_2", "Pin_3"]

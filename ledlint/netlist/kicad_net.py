@@ -284,7 +284,8 @@ class _Builder:
         tool = _atom(dsec.get("tool"))
         self.kicad10 = "groups" in sections or "variants" in sections or _tool_major(tool) >= 10
         nodes, net_items = self._read_nets()
-        self.kicad10 = self.kicad10 or _numbered_functions(nodes)
+        if not self.kicad10 and not _tool_major(tool):  # the guess is for files that do not say
+            self.kicad10 = _numbered_functions(nodes)
         components = self._read_components(nodes)
         nets = self._assemble_nets(net_items, components)
         sheets = tuple(_sheet(_children(s)) for s in _sublists(design, "sheet"))

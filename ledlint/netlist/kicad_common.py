@@ -1,0 +1,66 @@
+"""What the schematic and XML readers share: reading a file, KiCad's own properties, DNP conventions.
+
+The conventions are the s-expression netlist reader's (kicad_net.py, which keeps its own copy):
+kicad-netlist-format.md §1.4 and §5.
+"""
+
+from __future__ import annotations
+
+import re
+from pathlib import Path
+from typing import Mapping
+
+from ledlint.errors import InputError, failure_reason
+
+# Far beyond any KiCad file (a 20,000-part board's netlist is 15 MB), and a stop for endless
+# inputs such as a device or a pipe.
+MAX_BYTES = 1 << 30
+
+# Properties KiCad writes for its own purposes, as opposed to the user's fields.
+KICAD_PROPERTIES = frozenset(
+    {"sheetname", "sheetfile", "sheet name", "sheet file", "dnp", "exclude_from_bom",
+     "exclude_from_board", "exclude_from_pos_files", "exclude_from_sim"}
+)
+# A user field or value that marks a part "do not populate" in KiCad 5 designs, which had
+# no native flag (common practice).
+_DNP_FIELDS = frozenset({"dnp", "dnf", "do not populate", "do not fit"})
+_DNP_TRUE = frozenset({"1", "yes", "y", "true", "x", "dnp", "dnf"})
+_DNP_VALUES = frozenset({"dnp", "dnf", "dni", "nf", "n/f", "nofit", "no fit", "do not populate"})
+_DIGITS = re.compile(r"(\d+)")
+
+
+def is_kicad_property(name: str) -> bool:
+    return name.lower() in KICAD_PROPERTIES or name.startswith("ki_")
+
+
+def empty_marker(text: str) -> str:
+    """'~' is KiCad's "empty" placeholder for values, datasheets and pin names (§6.11)."""
+    return "" if text == "~" else text
+
+
+def marked_dnp(value: str, fields: Mapping[str, str]) -> bool:
+    """A value or user field that says "do not populate" (the KiCad 5 habit)."""
+    return value.lower() in _DNP_VALUES or any(
+        k.lower() in _DNP_FIELDS and v.strip().lower() in _DNP_TRUE for k, v in fields.items())
+
+
+def natural(text: str) -> tuple[tuple[int, int | str], ...]:
+    """KiCad's StrNumCmp order: digit runs compare as numbers (R2 before R10)."""
+    return tuple((0, int(p)) if p.isdigit() else (1, p) for p in _DIGITS.split(text) if p)
+
+
+def read_bytes(path: str | Path, what: str) -> bytes:
+    """A file's bytes; a missing, unreadable or oversized file is an InputError naming it."""
+    name = str(path)
+    try:
+        with open(path, "rb") as fh:
+            data = fh.read(MAX_BYTES + 1)
+    except FileNotFoundError:
+        raise InputError("no such file", name) from None
+    except IsADirectoryError:
+        raise InputError(f"is a folder, not a {what}", name) from None
+    except OSError as exc:
+        raise InputError(f"cannot read: {failure_reason(exc)}", name) from None
+    if len(data) > MAX_BYTES:
+        raise InputError(f"larger than {MAX_BYTES >> 30} GiB: not a {what}", name)
+    return data
