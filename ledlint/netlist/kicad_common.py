@@ -10,11 +10,12 @@ import re
 from pathlib import Path
 from typing import Mapping
 
-from ledlint.errors import InputError, failure_reason
+from ledlint.errors import InputError, byte_position, failure_reason
 
-# Far beyond any KiCad file (a 20,000-part board's netlist is 15 MB), and a stop for endless
-# inputs such as a device or a pipe.
-MAX_BYTES = 1 << 30
+# The largest design file read: eight times a 20,000-part board's 15 MB netlist, and a stop for
+# endless inputs such as a device or a pipe. The README states it, and what it costs (memory
+# runs to about fifteen times the file).
+MAX_BYTES = 128 << 20
 
 # Properties KiCad writes for its own purposes, as opposed to the user's fields.
 KICAD_PROPERTIES = frozenset(
@@ -40,7 +41,7 @@ def empty_marker(text: str) -> str:
 
 def marked_dnp(value: str, fields: Mapping[str, str]) -> bool:
     """A value or user field that says "do not populate" (the KiCad 5 habit)."""
-    return value.lower() in _DNP_VALUES or any(
+    return value.lower() in _DNP_VALUES or bool(fields) and any(
         k.lower() in _DNP_FIELDS and v.strip().lower() in _DNP_TRUE for k, v in fields.items())
 
 
@@ -50,11 +51,17 @@ def natural(text: str) -> tuple[tuple[int, int | str], ...]:
 
 
 def read_bytes(path: str | Path, what: str) -> bytes:
-    """A file's bytes; a missing, unreadable or oversized file is an InputError naming it."""
+    """A file's bytes; a missing, unreadable, binary or oversized file is an InputError naming it.
+    A binary stream is refused from its first block rather than read whole."""
     name = str(path)
     try:
         with open(path, "rb") as fh:
-            data = fh.read(MAX_BYTES + 1)
+            head = fh.read(min(1 << 16, MAX_BYTES + 1))
+            nul = head.find(b"\0")
+            if nul >= 0:
+                line, col = byte_position(head, nul)
+                raise InputError(f"binary file (NUL byte), not a {what}", name, line, col)
+            data = head + fh.read(max(0, MAX_BYTES + 1 - len(head)))
     except FileNotFoundError:
         raise InputError("no such file", name) from None
     except IsADirectoryError:
@@ -62,5 +69,5 @@ def read_bytes(path: str | Path, what: str) -> bytes:
     except OSError as exc:
         raise InputError(f"cannot read: {failure_reason(exc)}", name) from None
     if len(data) > MAX_BYTES:
-        raise InputError(f"larger than {MAX_BYTES >> 30} GiB: not a {what}", name)
+        raise InputError(f"larger than {MAX_BYTES >> 20} MiB: too large for a {what}", name)
     return data

@@ -4,24 +4,15 @@ from __future__ import annotations
 
 import re
 from dataclasses import dataclass, field
+from functools import lru_cache
 from pathlib import Path
 from ledlint.frozen import FrozenMap
 
-from ledlint.errors import InputError, byte_position, failure_reason
+from ledlint.errors import InputError, byte_position
+from ledlint.netlist.kicad_common import empty_marker, is_kicad_property, marked_dnp, read_bytes
 from ledlint.netlist.model import Component, Net, Netlist, Note, Pin, PinType, Sheet
 from ledlint.netlist.sexpr import Locator, SList, parse
 
-# Properties KiCad writes for its own purposes, as opposed to the user's fields
-# (kicad-netlist-format.md §1.4 and §5).
-_KICAD_PROPERTIES = frozenset(
-    {"sheetname", "sheetfile", "sheet name", "sheet file", "dnp", "exclude_from_bom",
-     "exclude_from_board", "exclude_from_pos_files", "exclude_from_sim"}
-)
-# A user field or value that marks a part "do not populate" in KiCad 5 designs, which had
-# no native flag (common practice).
-_DNP_FIELDS = frozenset({"dnp", "dnf", "do not populate", "do not fit"})
-_DNP_TRUE = frozenset({"1", "yes", "y", "true", "x", "dnp", "dnf"})
-_DNP_VALUES = frozenset({"dnp", "dnf", "dni", "nf", "n/f", "nofit", "no fit", "do not populate"})
 _OTHER_ROOTS = {
     "kicad_pcb": "a KiCad board file",
     "kicad_sch": "a KiCad schematic file",
@@ -32,40 +23,15 @@ _OTHER_ROOTS = {
     "sym_lib_table": "a KiCad symbol library table",
 }
 _DIGITS = re.compile(r"(\d+)")
+_MANY = 10  # notes of one kind listed one by one; past this, counted
+_NONE: FrozenMap = FrozenMap({})  # shared by the many parts with no fields or properties
 
 
 def read_netlist(path: str | Path) -> Netlist:
     """Read a netlist file; every problem with the input is an InputError."""
     name = str(path)
-    try:
-        data = _read_bytes(Path(path), name)
-    except FileNotFoundError:
-        raise InputError("no such file", name) from None
-    except IsADirectoryError:
-        raise InputError("is a folder, not a netlist file", name) from None
-    except OSError as exc:
-        raise InputError(f"cannot read: {failure_reason(exc)}", name) from None
-    text, notes = decode(data, name)
+    text, notes = decode(read_bytes(path, "KiCad netlist"), name)
     return parse_netlist(text, name, notes)
-
-
-# Far beyond any netlist (a 20,000-part board is 15 MB), and a stop for endless inputs such as
-# a device or a pipe that never ends.
-MAX_BYTES = 1 << 30
-
-
-def _read_bytes(path: Path, name: str) -> bytes:
-    """The file's bytes, refusing a binary stream from its first block rather than reading it all."""
-    with open(path, "rb") as fh:
-        head = fh.read(1 << 16)
-        nul = head.find(b"\0")
-        if nul >= 0:
-            line, col = byte_position(head, nul)
-            raise InputError("binary file (NUL byte), not a KiCad netlist", name, line, col)
-        data = head + fh.read(MAX_BYTES + 1 - len(head))
-    if len(data) > MAX_BYTES:
-        raise InputError(f"larger than {MAX_BYTES >> 30} GiB: not a KiCad netlist", name)
-    return data
 
 
 def _numbered_functions(nodes: dict[tuple[str, str], _NodeInfo]) -> bool:
@@ -129,12 +95,8 @@ def _sublists(item: SList | None, head: str) -> list[SList]:
     return [x for x in item[1:] if type(x) is SList and x and x[0] == head]
 
 
-def _empty_marker(text: str) -> str:
-    # '~' is KiCad's "empty" placeholder for values, datasheets and pin names (§6.11).
-    return "" if text == "~" else text
-
-
-def _natural(number: str) -> tuple:
+@lru_cache(maxsize=4096)  # pin numbers repeat across a board: "1", "2"
+def _natural(number: str) -> tuple[int | str, ...]:
     return tuple(int(p) if p.isdigit() else p for p in _DIGITS.split(number))
 
 
@@ -197,9 +159,9 @@ def _net(item: SList) -> _Net:
 def _comp(comp: SList) -> _Comp:
     sec = _children(comp)
     out = _Comp(_atom(sec.get("ref")), comp.offset)
-    out.value = _empty_marker(_atom(sec.get("value")))
+    out.value = empty_marker(_atom(sec.get("value")))
     out.footprint = _atom(sec.get("footprint"))
-    out.datasheet = _empty_marker(_atom(sec.get("datasheet")))
+    out.datasheet = empty_marker(_atom(sec.get("datasheet")))
     lib_sec = _pairs(sec["libsource"]) if "libsource" in sec else {}
     out.lib, out.part = lib_sec.get("lib", ""), lib_sec.get("part", "")
     own_description = "description" in sec
@@ -209,7 +171,7 @@ def _comp(comp: SList) -> _Comp:
         text = _atom(f)
         # KiCad 8+ repeats its own Footprint/Datasheet/Description fields here (§1.4).
         if (name == "Footprint" and text == out.footprint) or \
-                (name == "Datasheet" and _empty_marker(text) == out.datasheet) or \
+                (name == "Datasheet" and empty_marker(text) == out.datasheet) or \
                 (name == "Description" and own_description):
             continue
         if name:
@@ -217,7 +179,7 @@ def _comp(comp: SList) -> _Comp:
     for p in _sublists(comp, "property"):
         ps = _pairs(p)
         name, text = ps.get("name", ""), ps.get("value", "")
-        if name.lower() in _KICAD_PROPERTIES or name.startswith("ki_"):
+        if is_kicad_property(name):
             out.properties[name] = text
         elif name:
             out.fields.setdefault(name, text)
@@ -240,18 +202,22 @@ class _Builder:
     libpins: dict[tuple[str, str], dict[str, tuple[str, str]]] = field(default_factory=dict)
     comps: list[_Comp] = field(default_factory=list)
     nets: list[_Net] = field(default_factory=list)
+    sections: dict[str, SList] = field(default_factory=dict)  # the first section of each kind
 
     def take(self, item: SList, section: SList, root: SList) -> bool:
         """Build a component, net or library part as soon as it is read, so the tree never holds
         them all; only those of the first section of each kind count, as KiCad writes one."""
-        if (section.head, item.head) not in _TAKEN or root.head != "export":
+        head, within = item.head, section.head
+        if (within, head) not in _TAKEN or root.head != "export":
             return False
-        first = next((x for x in root if type(x) is SList and x and x[0] == section.head), None)
+        first = self.sections.get(within)
+        if first is None:
+            first = self.sections[within] = next(x for x in root if type(x) is SList and x and x[0] == within)
         if first is not section:
             return False
-        if item.head == "comp":
+        if head == "comp":
             self.comps.append(_comp(item))
-        elif item.head == "net":
+        elif head == "net":
             self.nets.append(_net(item))
         else:
             self._index_libpart(item)
@@ -276,6 +242,11 @@ class _Builder:
                                       "from the schematic editor")
             raise self.fail(root.offset, f"not a KiCad netlist: the file starts with '({root.head}', expected '(export'")
         sections = _children(root)
+        # An export cut short, or a stub, must not pass a CI gate as a clean board.
+        if "components" not in sections:
+            raise self.fail(root.offset, "no (components …) section: not a whole netlist (a truncated export?)")
+        if not self.comps and not self.nets:
+            raise self.fail(root.offset, "no components and no nets: an empty netlist (a truncated export?)")
         version = self.version = _atom(sections.get("version"))
         if version not in ("D", "E"):
             self.note(sections.get("version", root).offset, f"unknown netlist version {version!r}; read as version E")
@@ -300,7 +271,7 @@ class _Builder:
         pins = {}
         for p in _sublists(sec.get("pins"), "pin"):
             ps = _pairs(p)
-            pins[ps.get("num", "")] = (_empty_marker(ps.get("name", "")), ps.get("type", ""))
+            pins[ps.get("num", "")] = (empty_marker(ps.get("name", "")), ps.get("type", ""))
         lib = _atom(sec.get("lib"))
         names = [_atom(sec.get("part"))] + [_atom(a) for a in _sublists(sec.get("aliases"), "alias")]
         for name in names:
@@ -368,18 +339,21 @@ class _Builder:
             if comp.units:
                 self.kicad10 = True
             out[comp.ref] = self._component(comp, by_ref_nodes.pop(comp.ref, {}))
-        for ref, pins in by_ref_nodes.items():
-            first = min(pins.values(), key=lambda i: i.line)
-            self.notes.append(Note(first.line, 1, f"net node names {ref!r}, which is not among the components"))
+        strays = [(min(i.line for i in pins.values()), ref) for ref, pins in by_ref_nodes.items()]
+        for line, ref in strays[:_MANY]:
+            self.notes.append(Note(line, 1, f"net node names {ref!r}, which is not among the components"))
+        if len(strays) > _MANY:  # one note for the rest: a stub or a corrupt file can name thousands
+            self.notes.append(Note(strays[_MANY][0], 1, f"and {len(strays) - _MANY:,} more net nodes name "
+                                                        "references that are not among the components"))
         return tuple(out.values())
 
     def _component(self, c: _Comp, pin_nodes: dict[str, _NodeInfo]) -> Component:
         fields, properties = c.fields, c.properties
-        dnp = "dnp" in properties or c.value.lower() in _DNP_VALUES or any(
-            k.lower() in _DNP_FIELDS and v.strip().lower() in _DNP_TRUE for k, v in fields.items())
+        dnp = "dnp" in properties or marked_dnp(c.value, fields)
         libpins = self.libpins.get((c.lib, c.part)) or self.libpins.get(("", c.part)) or {}
         pins = []
-        for number in sorted(set(libpins) | set(pin_nodes), key=_natural):
+        numbers = pin_nodes.keys() | libpins.keys()
+        for number in sorted(numbers, key=_natural) if len(numbers) > 1 else numbers:
             lib_name, lib_type = libpins.get(number, ("", ""))
             node = pin_nodes.get(number)
             if node is not None:
@@ -391,7 +365,8 @@ class _Builder:
                 pins.append(Pin(c.ref, number, lib_name, PinType.from_text(lib_type), None))
         return Component(
             ref=c.ref, value=c.value, footprint=c.footprint, datasheet=c.datasheet, description=c.description,
-            lib=c.lib, part=c.part, fields=FrozenMap(fields), properties=FrozenMap(properties),
+            lib=c.lib, part=c.part, fields=FrozenMap(fields) if fields else _NONE,
+            properties=FrozenMap(properties) if properties else _NONE,
             dnp=dnp, exclude_from_bom="exclude_from_bom" in properties, sheet=c.sheet or "/",
             exclude_from_board="exclude_from_board" in properties, exclude_from_sim="exclude_from_sim" in properties,
             line=self.line(c.offset), pins=tuple(pins),

@@ -26,6 +26,14 @@ MAX_DEPTH = 100
 _TOKEN = re.compile(
     r'[ \t\r\n\f\v]*(?:(\()|(\))|"([^"\\\r\n]*(?:\\.[^"\\\r\n]*)*)"|([^ \t\r\n\f\v()"][^ \t\r\n\f\v()]*)|("))'
 )
+# The body's scanner: _TOKEN with one more alternative tried first, a whole list of a keyword
+# and one plainly written atom, "(ref "R1")" or "(pin 2)", read in one match instead of four
+# tokens; most lists inside a part or a net are that. Groups: 1 that list, 2 its keyword,
+# 3 its quoted atom or 4 its bare atom; then 5-9 as _TOKEN's 1-5.
+_SCAN = re.compile(
+    r'[ \t\r\n\f\v]*(?:(\(([a-z_]+)[ \t]+(?:"([^"\\\r\n]*)"|([^ \t\r\n\f\v()"][^ \t\r\n\f\v()]*))\))'
+    r'|(\()|(\))|"([^"\\\r\n]*(?:\\.[^"\\\r\n]*)*)"|([^ \t\r\n\f\v()"][^ \t\r\n\f\v()]*)|("))'
+)
 _ESCAPE = re.compile(r"\\(?:x([0-9A-Fa-f]{1,2})|([0-7]{1,3})|(.))", re.S)
 _SIMPLE_ESCAPES = {
     '"': '"', "\\": "\\", "a": "\a", "b": "\b", "f": "\f",
@@ -91,33 +99,61 @@ def parse(text: str, path: str = "", take: Callable[[SList, SList, SList], bool]
     top = SList()
     current = top
     stack: list[SList] = []
-    for m in _TOKEN.finditer(text):
-        kind = m.lastindex or 0
-        if not stack and (top or kind != 1):
-            offset = m.start(kind)
-            if kind == 2:
+    pos = len(text)  # where the body starts: nowhere, unless the text opens a list
+    for first in _TOKEN.finditer(text):  # the first token, which must open the one top-level list
+        what = first.lastindex or 0
+        if what != 1:
+            offset = first.start(what)
+            if what == 2:
                 raise fail("unexpected ')': more lists closed than opened", offset)
-            if top:
-                raise fail("unexpected text after the netlist's closing ')'", offset)
             raise fail(_describe_non_sexpr(text[offset:]), offset)
-        if kind == 1:
+        current = SList()
+        current.offset = first.start(1)
+        top.append(current)
+        stack.append(top)
+        pos = first.end()
+        break
+    append = stack.append
+    for m in _SCAN.finditer(text, pos):  # the body: the hot loop of every read
+        kind = m.lastindex
+        if kind == 8:
+            current.append(m.group(8))
+        elif kind == 1:
             if len(stack) >= MAX_DEPTH:
                 raise fail(f"lists nested deeper than {MAX_DEPTH} levels; not a KiCad netlist", m.start(1))
-            new = SList()
+            quoted = m.group(3)
+            new = SList((m.group(2), m.group(4) if quoted is None else quoted))
             new.offset = m.start(1)
+            # A leaf closes as it opens: offer it to take() as ')' below would.
+            if not (len(stack) == 2 and take is not None and take(new, current, stack[1])):
+                current.append(new)
+        elif kind == 5:
+            if len(stack) >= MAX_DEPTH:
+                raise fail(f"lists nested deeper than {MAX_DEPTH} levels; not a KiCad netlist", m.start(5))
+            new = SList()
+            new.offset = m.start(5)
             current.append(new)
-            stack.append(current)
+            append(current)
             current = new
-        elif kind == 2:
+        elif kind == 6:
             done, current = current, stack.pop()
-            if take is not None and len(stack) == 2 and take(done, current, stack[1]):
+            if len(stack) == 2 and take is not None and take(done, current, stack[1]):
                 current.pop()
-        elif kind == 3:
-            current.append(unescape(m.group(3)))
-        elif kind == 4:
-            current.append(m.group(4))
+            elif not stack:
+                pos = m.end()
+                break
+        elif kind == 7:
+            body = m.group(7)
+            current.append(unescape(body) if "\\" in body else body)
         else:
-            raise fail("unterminated string: a '\"' is never closed on its line", m.start(5))
+            raise fail("unterminated string: a '\"' is never closed on its line", m.start(9))
+    else:
+        pos = len(text)
+    if (rest := _TOKEN.match(text, pos)) is not None:  # anything after the top-level list closed
+        what = rest.lastindex or 0
+        if what == 2:
+            raise fail("unexpected ')': more lists closed than opened", rest.start(2))
+        raise fail("unexpected text after the netlist's closing ')'", rest.start(what))
     if stack:
         line, col = locator.line_col(current.offset)
         raise fail(
