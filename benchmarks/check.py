@@ -15,31 +15,10 @@ from pathlib import Path
 import sexpdata
 
 sys.path.insert(0, str(Path(__file__).parent))
-from generate import best_of, netlist  # noqa: E402
+from generate import best_of, netlist, peak_mb  # noqa: E402
 
 from ledlint.review.run import check  # noqa: E402
 
-
-
-# Each measured in a fresh interpreter, so that one does not inherit the other's heap: the peak
-# resident set size of reading the file and doing the one job (VmHWM, kB; getrusage's maxrss
-# would carry the parent's peak over the fork).
-_PEAK = """
-import sys
-path = sys.argv[1]
-if sys.argv[2] == "check":
-    from ledlint.review.run import check
-    check([path])
-else:
-    import sexpdata
-    sexpdata.loads(open(path, encoding="utf-8").read())
-print(next(line.split()[1] for line in open("/proc/self/status") if line.startswith("VmHWM")))
-"""
-
-
-def peak_mb(path: Path, job: str) -> float:
-    done = subprocess.run([sys.executable, "-c", _PEAK, str(path), job], capture_output=True, text=True, check=True)
-    return int(done.stdout.split()[-1]) / 1024
 
 
 def main() -> None:

@@ -3,8 +3,10 @@
 from __future__ import annotations
 
 import gc
+import subprocess
 import sys
 import time
+from pathlib import Path
 from typing import Callable
 
 _HEADER = """(export (version "E")
@@ -104,6 +106,28 @@ def netlist(circuits: int) -> str:
         out.append(_node(f"D{i}", "2", "A") + "\n" + _node(f"R{i}", "2", None) + ")\n")
     out.append("  ))\n")
     return "".join(out)
+
+
+
+# Each measured in a fresh interpreter, so that one does not inherit the other's heap: the peak
+# resident set size of reading the file and doing the one job (VmHWM, kB; getrusage's maxrss
+# would carry the parent's peak over the fork).
+_PEAK = """
+import sys
+path = sys.argv[1]
+if sys.argv[2] == "check":
+    from ledlint.review.run import check
+    check([path])
+else:
+    import sexpdata
+    sexpdata.loads(open(path, encoding="utf-8").read())
+print(next(line.split()[1] for line in open("/proc/self/status") if line.startswith("VmHWM")))
+"""
+
+
+def peak_mb(path: Path, job: str) -> float:
+    done = subprocess.run([sys.executable, "-c", _PEAK, str(path), job], capture_output=True, text=True, check=True)
+    return int(done.stdout.split()[-1]) / 1024
 
 
 if __name__ == "__main__":

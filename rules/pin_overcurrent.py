@@ -50,7 +50,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
             if p.current_max <= p.limit.value:
                 continue
             verb = "sources" if p.sourcing else "sinks"
-            comp = ctx.board.parts.get(p.pin.ref)
+            comp = ctx.board.netlist.component(p.pin.ref)
             assumed = tuple(assumed_param(f"{p.pin.ref} pin limit", p.limit, "A") + circuit_assumptions(a))
             values = (Value("current", p.current_max, "A", p.limit.value, ">"), Value("limit", p.limit.value, "A"))
             if p.base is not None:
@@ -71,7 +71,7 @@ def _base_finding(ctx: RuleContext, a: Driven, p: PinResult, b: SwitchDrive, val
     between them limits the pin's current."""
     hint = base_resistor_hint(a, b, p.limit.value)
     base = f"through {b.resistor}" if b.resistor else "with no base resistor"
-    part = ctx.board.parts.get(p.pin.ref)
+    part = ctx.board.netlist.component(p.pin.ref)
     return ctx.finding(
         a, Severity.ERROR, "{ic} pin {pin} ({net}) {verb} up to {current} {way} {q}'s base {base}, above its limit of "
         "{limit}", refs=tuple(dict.fromkeys((p.pin.ref, b.transistor, *((b.resistor,) if b.resistor else ()), *a.circuit.refs))),

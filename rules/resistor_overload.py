@@ -59,7 +59,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
                 continue  # the output cannot hold its current (driver-headroom): this power is not real
             role = _ROLE[r.role]
             rating = r.params.power
-            comp = ctx.board.parts.get(r.ref)
+            comp = ctx.board.netlist.component(r.ref)
             footprint = comp.footprint if comp else ""
             if not isinstance(rating, Param):
                 if r.power_max > 0.01:  # below 10 mW any resistor copes (the smallest chips are 1/32 W)
@@ -90,7 +90,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
 
 
 def _line(ctx: RuleContext, ref: str) -> int | None:
-    comp = ctx.board.parts.get(ref)
+    comp = ctx.board.netlist.component(ref)
     return comp.line if comp else None
 
 

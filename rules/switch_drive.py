@@ -62,7 +62,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
         for d in a.drives:
             pin = f"{d.pin.ref} pin {d.pin.name or d.pin.number}"
             refs = tuple(dict.fromkeys((d.transistor, d.pin.ref, *((d.resistor,) if d.resistor else ()), *c.refs)))
-            part = ctx.board.parts.get(d.transistor)
+            part = ctx.board.netlist.component(d.transistor)
             line = part.line if part else None
             if d.high_side and d.io is not None and d.pin.type is not PinType.OPEN_COLLECTOR:
                 threshold = VGS.minimum if d.part is Kind.PMOS else VBE.minimum

@@ -54,7 +54,7 @@ def check(ctx: RuleContext) -> Iterator[Finding]:
             # The pins' roles rest on an assumed pinout when the symbol does not name them: then
             # the finding may be the assumption's, one step less severe.
             severity = by_evidence(Severity.ERROR, bool(q.assumption))
-            part = ctx.board.parts.get(q.ref)
+            part = ctx.board.netlist.component(q.ref)
             yield ctx.finding(
                 a, severity, "{why}; it sits between {top} and {bottom} in the path of {leds}",
                 refs=(q.ref, *(i.ref for i in c.leds)), nets=(q.net_a, q.net_b),

@@ -150,6 +150,7 @@ def fixed_run(tmp_path: Path, monkeypatch: pytest.MonkeyPatch):
                 waived="R1 is a 2 W part on the assembly drawing"),
     )
     board = BoardAnalysis(netlist, (), (), ())
-    fr = FileResult(path, netlist, board, active, waived, "ledlint.toml", summarise(path, board))
+    named = (r for f in (*active, *waived) for r in f.refs)
+    fr = FileResult(path, netlist, board, active, waived, "ledlint.toml", summarise(path, board, named))
     unused = (Waiver("current-margin", "D9 was removed", ref="D9", origin="ledlint.toml [[waivers]] #2"),)
     return RunResult((fr,), rules, unused)

@@ -28,7 +28,6 @@ from ledlint.circuits.sink import CurrentSink
 from ledlint.circuits.string import SeriesString
 from ledlint.config import Config
 from ledlint.engine import ModelError
-from ledlint.frozen import FrozenMap
 from ledlint.netlist.model import Netlist
 from ledlint.parts.params import Missing
 
@@ -71,4 +70,4 @@ def analyse(netlist: Netlist, config: Config) -> BoardAnalysis:
                  else replace(a, rail=_rail(graph, config, a.circuit)) for a in analyses)
     supplies = [(a.circuit.id, a.supply if isinstance(a, (Incomplete, Computed)) else None) for a in done]
     caution = cautions(netlist, [c.ends[0] for c in circuits], supplies, config)
-    return BoardAnalysis(netlist, circuits, done, caution, FrozenMap({c.ref: c for c in netlist.components}))
+    return BoardAnalysis(netlist, circuits, done, caution)

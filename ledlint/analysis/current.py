@@ -111,7 +111,7 @@ def _solve(parts: Parts, c: CurrentSink | DriverOutput, setc: SetCurrent, missin
         power = v * v / ohms.minimum if v > 0 and ohms.minimum > 0 else setc.current.maximum ** 2 * ohms.maximum
         resistors.append(ResistorResult(sense_ref, parts.resistor(sense_ref), ResistorRole.SENSE,
                                         setc.current.maximum, power, amb))
-    resistors += balancing(cor.solution, res, amb)
+    resistors += balancing(cor, res, amb)
     k = len(c.branches)
     split = sharing(ec, cor, flat, seed(c), setc.current.nominal / k) if k >= 2 else None
     # Headroom: the least input minus the highest string voltage at the set current (its LEDs

@@ -15,7 +15,7 @@ from ledlint.circuits.graph import NetGraph
 from ledlint.circuits.topology import Element, ElementKind
 from ledlint.config import Config
 from ledlint.engine import Circuit as EngineCircuit
-from ledlint.engine import Corners, LedSpec, ModelError, Solution, fit_points, forward_voltage, monte_carlo
+from ledlint.engine import Corners, LedSpec, ModelError, fit_points, forward_voltage, monte_carlo
 from ledlint.netlist.model import Component
 from ledlint.parts.devices import R_DS_ON, V_DIODE, VCE_SAT
 from ledlint.parts.kinds import Kind
@@ -23,6 +23,10 @@ from ledlint.parts.params import LedParams, Missing, Param, ResistorParams, know
 from ledlint.quantities.ranges import Range
 
 MC_SAMPLES = 2000  # per bank in a check; the benchmark runs 10,000
+# Samples times LEDs in one Monte Carlo: the memory of its solve, about 100 bytes a cell. A bank
+# of more than 500 LEDs gets fewer samples (100 at the least), and its findings say how many.
+MC_CELLS = 1_000_000
+MC_LEAST = 100
 
 
 class Parts:
@@ -117,14 +121,14 @@ def seed(c: LedCircuit) -> int:
 
 
 def led_results(cor: Corners, flat: list[LedParams]) -> list[LedResult]:
-    sol, nominal = cor.solution, cor.nominal
+    nominal, tj_max, reverse = cor.nominal, cor.tj_max, cor.led_voltage_min
+    high, low = cor.led_current_max, cor.led_current_min
     out = []
     for j, p in enumerate(flat):
         i_nom = float(nominal.led_current[j])
-        out.append(LedResult(p.id, p, Range(i_nom, min(float(cor.led_current_min[j]), i_nom),
-                                            max(float(cor.led_current_max[j]), i_nom)),
-                             float(nominal.led_voltage[j]), float(sol.tj[:, j].max()),
-                             max(0.0, -float(sol.led_voltage[:, j].min())), float(cor.min_current.led_current[j])))
+        out.append(LedResult(p.id, p, Range(i_nom, min(float(low[j]), i_nom), max(float(high[j]), i_nom)),
+                             float(nominal.led_voltage[j]), float(tj_max[j]), max(0.0, -float(reverse[j])),
+                             float(cor.min_current.led_current[j])))
     return out
 
 
@@ -161,23 +165,24 @@ def gaps(results: tuple[LedResult, ...] | list[LedResult],
     return tuple(dict.fromkeys(unknown + unread + [m for r in resistors for m in r.params.unreadable]))
 
 
-def balancing(sol: Solution, branch_res: list[list[ResistorParams]], ambient: float) -> list[ResistorResult]:
+def balancing(cor: Corners, branch_res: list[list[ResistorParams]], ambient: float) -> list[ResistorResult]:
     out = []
+    currents, powers = cor.branch_current_max, cor.branch_resistor_power_max
     for k, rs in enumerate(branch_res):
         total = sum(x.resistance.value for x in rs if isinstance(x.resistance, Param))
         for rp in rs:
             if isinstance(rp.resistance, Param) and total > 0:
-                out.append(ResistorResult(rp.ref, rp, ResistorRole.BALANCING, float(sol.branch_current[:, k].max()),
-                                          float(sol.branch_resistor_power[:, k].max()) * rp.resistance.value / total,
-                                          ambient))
+                out.append(ResistorResult(rp.ref, rp, ResistorRole.BALANCING, float(currents[k]),
+                                          float(powers[k]) * rp.resistance.value / total, ambient))
     return out
 
 
 def sharing(ec: EngineCircuit, cor: Corners, flat: list[LedParams], draw: int, equal_share: float) -> Sharing:
-    mc = monte_carlo(ec, samples=MC_SAMPLES, seed=draw)
+    samples = max(MC_LEAST, min(MC_SAMPLES, MC_CELLS // len(flat)))
+    mc = monte_carlo(ec, samples=samples, seed=draw)
     peak = np.maximum(mc.current.maximum, cor.led_current_max)
     worst = int(np.argmax(peak))
-    return Sharing(MC_SAMPLES, draw, float(mc.spread_summary.p99), flat[worst].id, float(peak[worst]), equal_share)
+    return Sharing(samples, draw, float(mc.spread_summary.p99), flat[worst].id, float(peak[worst]), equal_share)
 
 
 def vf_max_at(p: LedParams, current: float, tj: float) -> float:

@@ -3,16 +3,15 @@ fields that outcome has. Rules and the circuit summary read these; nothing here 
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 from enum import Enum
-from typing import TYPE_CHECKING, ClassVar, Mapping
+from typing import TYPE_CHECKING, ClassVar
 
 from ledlint.analysis.setpoints import SetCurrent
 from ledlint.analysis.supplies import Supply
 from ledlint.analysis.switching import SwitchDrive
 from ledlint.circuits.circuit import LedCircuit
-from ledlint.frozen import FrozenMap
-from ledlint.netlist.model import Component, Netlist, Pin
+from ledlint.netlist.model import Netlist, Pin
 from ledlint.parts.kinds import LedId
 from ledlint.parts.params import LedParams, Missing, Param, ResistorParams
 from ledlint.quantities.ranges import Range
@@ -170,4 +169,3 @@ class BoardAnalysis:
     circuits: tuple[LedCircuit, ...]
     analyses: tuple[Analysis, ...]
     cautions: tuple[str, ...]  # safety: mains or high voltage seen on the board
-    parts: Mapping[str, Component] = field(default_factory=lambda: FrozenMap({}))

@@ -4,6 +4,7 @@ plain values, why a circuit has none, and what the board holds. Reports compute 
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import Iterable
 from enum import Enum
 
 from ledlint.analysis.results import Analysis, BoardAnalysis, Computed, Driven, ResistorRole
@@ -117,7 +118,9 @@ class BoardSummary:
         return found if isinstance(found, PartLine) else None
 
 
-def summarise(path: str, board: BoardAnalysis) -> BoardSummary:
+def summarise(path: str, board: BoardAnalysis, refs: Iterable[str] = ()) -> BoardSummary:
+    """What the reports show of a board; where the parts named in `refs` (those the findings
+    name) are written, for links to them."""
     n = board.netlist
     skipped: dict[str, int] = {}
     for a in board.analyses:
@@ -129,4 +132,5 @@ def summarise(path: str, board: BoardAnalysis) -> BoardSummary:
         leds=led_parts(n.components), dies=sum(len(c.leds) for c in board.circuits), circuits=len(board.circuits),
         analysed=sum(a.solved for a in board.analyses), skipped=tuple(sorted(skipped.items())), notes=n.notes,
         cautions=board.cautions, rows=tuple(row(path, a) for a in board.analyses),
-        parts=FrozenMap({c.ref: PartLine(c.line, c.value, c.file) for c in n.components}))
+        parts=FrozenMap({c.ref: PartLine(c.line, c.value, c.file) for r in dict.fromkeys(refs)
+                         if (c := n.component(r)) is not None}))

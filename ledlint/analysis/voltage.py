@@ -26,6 +26,9 @@ from ledlint.parts.params import LedParams, Missing, ResistorParams, pin_limit
 from ledlint.quantities.ranges import Range
 
 
+MAX_LOOP_LEDS = 200
+
+
 @dataclass(frozen=True)
 class _Solved:
     leds: tuple[LedResult, ...]
@@ -86,7 +89,13 @@ def _voltage_driven(parts: Parts, c: Wired, result: type[StringResult] | type[Ba
         ec = EngineCircuit(branches, supply=supply.volts, r_series=rc, r_switch=r_pin + r_sw, v_switch=v_sw,
                            ambient=parts.ambient)
         plans.append((src, ret, ec, leds, res))
-    answers = yield [(ec, True) for _, _, ec, _, _ in plans]
+    # The loop gain's matrix is as wide as the circuit's heated LEDs, and its eigenvalues cost the
+    # cube of that: past a few hundred (no real string or bank), it is left out, and said so.
+    heated = sum(1 for p in all_leds if p.rth is not None)
+    if heated > MAX_LOOP_LEDS:
+        assumptions.append(f"electro-thermal loop gain not worked out: {heated} self-heating LEDs in one circuit, "
+                           f"more than the {MAX_LOOP_LEDS} the tool takes")
+    answers = yield [(ec, heated <= MAX_LOOP_LEDS) for _, _, ec, _, _ in plans]
     solved = [_solve(parts, c, src, ret, ec, cor, gain, common_res, leds, res)
               for (src, ret, ec, leds, res), (cor, gain) in zip(plans, answers)]
     results = tuple(r for s in solved for r in s.leds)
@@ -133,7 +142,7 @@ def _solve(parts: Parts, c: Wired, src: Terminal | None, ret: Terminal | None, e
         share = rp.resistance.value / rc.nominal if rc.nominal > 0 and not isinstance(rp.resistance, Missing) else 0.0
         power = float((sol.common_current ** 2 * cor.cases.r_series * share).max())
         resistors.append(ResistorResult(rp.ref, rp, ResistorRole.BALLAST, float(i_common.max()), power, amb))
-    resistors += balancing(sol, branch_res, amb)
+    resistors += balancing(cor, branch_res, amb)
     pins = []
     for t, sourcing in ((src, True), (ret, False)):
         if t is not None and t.kind is TerminalKind.PIN and t.pin is not None:

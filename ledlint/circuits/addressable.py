@@ -8,7 +8,7 @@ from dataclasses import dataclass
 from ledlint.circuits.circuit import CircuitKind, LedCircuit, Wired
 from ledlint.circuits.shapes import Context, Recogniser
 from ledlint.netlist.model import natural
-from ledlint.parts.kinds import Kind, LedId, classify
+from ledlint.parts.kinds import LedId
 
 _DATA_OUT = ("DOUT", "DO", "SDO")
 _DATA_IN = ("DIN", "DI", "SDI")
@@ -29,7 +29,7 @@ class Addressable(Wired):
 
 
 def from_parts(ctx: Context) -> Iterator[LedCircuit]:
-    addressable = [c for c in ctx.graph.netlist.components if classify(c) is Kind.LED_ADDRESSABLE]
+    addressable = ctx.addressable
     parent = {c.ref: c.ref for c in addressable}
 
     def find(x: str) -> str:

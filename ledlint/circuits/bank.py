@@ -25,10 +25,10 @@ def from_junction(ctx: Context, j: Junction) -> LedCircuit | None:
     topo = ctx.topo
     common = topo.terminal(j.far_net)
     top, bottom = (j.common, ()) if j.at_top else ((), j.common)
-    ends = j.ends(topo)
+    ends = j.ends
     source: Terminal | None
     ret: Terminal | None
-    if len(j.far_nets(topo)) == 1:
+    if len(j.far_nets) == 1:
         if len(j.strings) == 1:
             return None  # one string: a series string
         far = ends[0]
@@ -38,7 +38,7 @@ def from_junction(ctx: Context, j: Junction) -> LedCircuit | None:
     if all(t.kind is TerminalKind.PIN for t in ends) and common.kind is TerminalKind.PIN:
         return None  # pins at both ends: multiplexed
     source, ret = (common, None) if j.at_top else (None, common)
-    return ResistorBank(*ctx.place(j.leds), branches=j.branches(topo), source=source, ret=ret, node=j.node,
+    return ResistorBank(*ctx.place(j.leds), branches=j.branches, source=source, ret=ret, node=j.node,
                         top=top, bottom=bottom, individually_driven=True)
 
 

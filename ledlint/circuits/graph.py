@@ -31,16 +31,13 @@ class NetGraph:
 
         self.netlist = netlist
         g: nx.Graph[object] = nx.Graph()
-        for net in netlist.nets:
-            g.add_node(net_node(net.name), net=net)
-        for comp in netlist.components:
-            g.add_node(part_node(comp.ref), component=comp)
-            for pin in comp.pins:
-                node = pin_node(comp.ref, pin.number)
-                g.add_node(node, pin=pin)
-                g.add_edge(part_node(comp.ref), node)
-                if pin.net is not None:
-                    g.add_edge(node, net_node(pin.net))
+        # Built in bulk: a board's nodes and edges number in the hundreds of thousands.
+        g.add_nodes_from((net_node(net.name), {"net": net}) for net in netlist.nets)
+        g.add_nodes_from((part_node(c.ref), {"component": c}) for c in netlist.components)
+        g.add_nodes_from((pin_node(p.ref, p.number), {"pin": p}) for c in netlist.components for p in c.pins)
+        g.add_edges_from((part_node(p.ref), pin_node(p.ref, p.number)) for c in netlist.components for p in c.pins)
+        g.add_edges_from((pin_node(p.ref, p.number), net_node(p.net)) for c in netlist.components for p in c.pins
+                         if p.net is not None)
         self.g = g
 
     def component(self, ref: str) -> Component | None:

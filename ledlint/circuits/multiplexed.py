@@ -20,14 +20,14 @@ class Multiplexed(Wired):
 
 
 def from_junction(ctx: Context, j: Junction) -> LedCircuit | None:
-    if not resistor_fed(ctx, j) or len(j.far_nets(ctx.topo)) == 1:
+    if not resistor_fed(ctx, j) or len(j.far_nets) == 1:
         return None
-    common, ends = ctx.topo.terminal(j.far_net), j.ends(ctx.topo)
+    common, ends = ctx.topo.terminal(j.far_net), j.ends
     if not (all(t.kind is TerminalKind.PIN for t in ends) and common.kind is TerminalKind.PIN):
         return None
     source, ret = (common, None) if j.at_top else (None, common)
     drivers = ", ".join(sorted({t.pin.ref for t in ends if t.pin}))
-    return Multiplexed(*ctx.place(j.leds), branches=j.branches(ctx.topo), source=source, ret=ret, node=j.node,
+    return Multiplexed(*ctx.place(j.leds), branches=j.branches, source=source, ret=ret, node=j.node,
                        top=j.common if j.at_top else (), bottom=() if j.at_top else j.common,
                        reason=f"both ends on driver pins ({common.detail} and the pins of {drivers}); which LEDs "
                               "are lit together depends on firmware")

@@ -7,7 +7,7 @@ from dataclasses import dataclass
 
 from ledlint.circuits.circuit import CircuitKind, LedCircuit
 from ledlint.circuits.shapes import Context, Recogniser
-from ledlint.parts.kinds import Kind, LedId, classify, led_dies
+from ledlint.parts.kinds import LedId, led_dies
 
 
 @dataclass(frozen=True)
@@ -18,8 +18,8 @@ class NotFitted(LedCircuit):
 
 
 def from_parts(ctx: Context) -> Iterator[LedCircuit]:
-    for comp in ctx.graph.netlist.components:
-        if comp.dnp and classify(comp) is Kind.LED:
+    for comp in ctx.leds:
+        if comp.dnp:
             ids = [LedId(comp.ref, d.name) for d in led_dies(comp)] or [LedId(comp.ref)]
             yield NotFitted(*ctx.place(ids))
 

@@ -9,6 +9,7 @@ its LEDs.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from functools import cached_property
 from typing import Callable, Iterable, Iterator, NamedTuple
 
 from ledlint.circuits.circuit import CircuitKind, LedCircuit, LedString
@@ -16,7 +17,7 @@ from ledlint.circuits.graph import NetGraph
 from ledlint.circuits.topology import Element, ElementKind, Segment, Terminal, TerminalKind, Topology
 from ledlint.config import Config
 from ledlint.netlist.model import Component
-from ledlint.parts.kinds import LedId
+from ledlint.parts.kinds import Kind, LedId, classify
 
 # Terminals the recogniser does not follow past: an inner node, something it cannot place, a
 # connector, an open end.
@@ -41,6 +42,13 @@ class Context:
     config: Config
     topo: Topology
     claimed: set[LedId] = field(default_factory=set)
+    leds: tuple[Component, ...] = ()  # the LED packages with pins, in netlist order
+    addressable: tuple[Component, ...] = ()  # the LED packages with their own controller
+
+    def __post_init__(self) -> None:
+        kinds = [(c, classify(c)) for c in self.graph.netlist.components]
+        self.leds = tuple(c for c, k in kinds if k is Kind.LED)
+        self.addressable = tuple(c for c, k in kinds if k is Kind.LED_ADDRESSABLE)
 
     def comp(self, ref: str) -> Component:
         c = self.graph.component(ref)
@@ -65,13 +73,15 @@ def led_ids(segments: Iterable[Segment]) -> list[LedId]:
 
 @dataclass(frozen=True)
 class Junction:
-    """LED strings meeting at a net with nothing else on it but other series paths."""
+    """LED strings meeting at a net with nothing else on it but other series paths. Each kind
+    asks about it in turn, so what it works out is kept (a bank can hold thousands of strings)."""
 
     node: str
     strings: tuple[Segment, ...]  # the LED segments not yet in a circuit
     others: tuple[Segment, ...]  # the series paths without LEDs
+    topo: Topology
 
-    @property
+    @cached_property
     def leds(self) -> list[LedId]:
         return led_ids(self.strings)
 
@@ -80,16 +90,16 @@ class Junction:
         """One other path leads on: the strings' common ballast, switch or sink."""
         return len(self.others) == 1
 
-    @property
+    @cached_property
     def at_top(self) -> bool:
         """The strings hang below the node: it is on their anode side."""
         return all(s.top == self.node for s in self.strings)
 
-    @property
+    @cached_property
     def one_sided(self) -> bool:
         return self.at_top or all(s.bottom == self.node for s in self.strings)
 
-    @property
+    @cached_property
     def common(self) -> tuple[Element, ...]:
         """The one other path, oriented: above the node for the anode side, below it for the cathode side."""
         path = self.others[0]
@@ -102,29 +112,34 @@ class Junction:
         """Where the common path leads: its supply end, or its return end."""
         return self.common[0].net_a if self.at_top else self.common[-1].net_b
 
-    def ends(self, topo: Topology) -> tuple[Terminal, ...]:
+    @cached_property
+    def ends(self) -> tuple[Terminal, ...]:
         """Each string's own far end."""
-        return tuple(topo.terminal(s.bottom if self.at_top else s.top) for s in self.strings)
+        at_top = self.at_top
+        return tuple(self.topo.terminal(s.bottom if at_top else s.top) for s in self.strings)
 
-    def branches(self, topo: Topology) -> tuple[LedString, ...]:
+    @cached_property
+    def branches(self) -> tuple[LedString, ...]:
         """The strings, each with its own far end."""
-        return tuple(LedString(s.elements, t) for s, t in zip(self.strings, self.ends(topo)))
+        return tuple(LedString(s.elements, t) for s, t in zip(self.strings, self.ends))
 
-    def odd_end(self, topo: Topology) -> Terminal | None:
+    @cached_property
+    def odd_end(self) -> Terminal | None:
         """The first end, common or a string's own, that the recogniser does not follow."""
-        common = topo.terminal(self.far_net)
+        common = self.topo.terminal(self.far_net)
         if common.kind in STRANGE:
             return common
-        return next((t for t in self.ends(topo) if t.kind in STRANGE), None)
+        return next((t for t in self.ends if t.kind in STRANGE), None)
 
-    @property
+    @cached_property
     def limited(self) -> bool:
         """A resistor in every string, or in the common path."""
         own = all(any(e.kind is ElementKind.RESISTOR for e in s.elements) for s in self.strings)
         return own or any(e.kind is ElementKind.RESISTOR for e in self.common)
 
-    def far_nets(self, topo: Topology) -> set[str]:
-        return {t.net for t in self.ends(topo)}
+    @cached_property
+    def far_nets(self) -> set[str]:
+        return {t.net for t in self.ends}
 
 
 def junction(ctx: Context, node: str) -> Junction | None:
@@ -133,7 +148,7 @@ def junction(ctx: Context, node: str) -> Junction | None:
     strings = tuple(s for s in segs if s.leds and ctx.free(s))
     if not strings:
         return None
-    return Junction(node, strings, tuple(s for s in segs if not s.leds))
+    return Junction(node, strings, tuple(s for s in segs if not s.leds), ctx.topo)
 
 
 @dataclass(frozen=True)

@@ -24,7 +24,7 @@ class CurrentSink(Wired):
 
 def from_junction(ctx: Context, j: Junction) -> LedCircuit | None:
     found = sink_below(ctx, j)
-    fars = j.far_nets(ctx.topo)
+    fars = j.far_nets
     if found is None or len(fars) != 1:
         return None
     stage, ground = found

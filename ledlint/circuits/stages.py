@@ -234,5 +234,5 @@ def sink_below(ctx: Context, j: Junction) -> tuple[SinkStage, Terminal] | None:
 def resistor_fed(ctx: Context, j: Junction) -> bool:
     """Strings meeting at a junction through a resistor, between ends the recogniser follows, with
     no current sink below them: a string, a bank or multiplexed LEDs."""
-    return (j.single_path and j.one_sided and sink_below(ctx, j) is None and j.odd_end(ctx.topo) is None
+    return (j.single_path and j.one_sided and sink_below(ctx, j) is None and j.odd_end is None
             and j.limited)

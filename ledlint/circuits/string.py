@@ -59,9 +59,9 @@ def from_segment(ctx: Context, seg: Segment) -> LedCircuit | None:
 
 def from_junction(ctx: Context, j: Junction) -> LedCircuit | None:
     """One string behind a common path (its ballast or switch) that other parts branch off."""
-    if len(j.strings) != 1 or not resistor_fed(ctx, j) or len(j.far_nets(ctx.topo)) != 1:
+    if len(j.strings) != 1 or not resistor_fed(ctx, j) or len(j.far_nets) != 1:
         return None
-    far, common = j.ends(ctx.topo)[0], ctx.topo.terminal(j.far_net)
+    far, common = j.ends[0], ctx.topo.terminal(j.far_net)
     source, ret = (common, far) if j.at_top else (far, common)
     return SeriesString(*ctx.place(j.leds), branches=(LedString(j.strings[0].elements),), source=source, ret=ret,
                         node=j.node, top=j.common if j.at_top else (), bottom=() if j.at_top else j.common)

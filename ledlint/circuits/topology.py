@@ -136,9 +136,9 @@ def _through(ref: str, kind: ElementKind, a: Pin, b: Pin, part: Kind) -> Element
     return Element(ref, kind, a.number, b.number, a.net, b.net, part=part)
 
 
-def elements_of(comp: Component, config: Config) -> tuple[Element, ...] | None:
+def elements_of(comp: Component, config: Config, kind: Kind | None = None) -> tuple[Element, ...] | None:
     """The series elements a component contributes; None when it is not a series part."""
-    kind = classify(comp)
+    kind = kind or classify(comp)
     if kind is Kind.LED:
         out = []
         for die in led_dies(comp):
@@ -176,11 +176,10 @@ def elements_of(comp: Component, config: Config) -> tuple[Element, ...] | None:
     return None
 
 
-def _ignored(comp: Component) -> bool:
+def _ignored(comp: Component, kind: Kind) -> bool:
     """Parts that carry no DC current or are not on the board."""
     if comp.dnp:
         return True
-    kind = classify(comp)
     if kind is Kind.CAPACITOR:
         return True
     return len(comp.pins) <= 1 and bool(_IGNORED_ONE_PIN.match(comp.ref))
@@ -209,8 +208,8 @@ class Topology:
         self.elements: list[Element] = []
         self.other_pins: dict[str, list[Pin]] = {}
         self.ends: dict[str, list[tuple[int, str]]] = {}  # net -> (element index, "a" | "b")
-        parts = [(comp, elements_of(comp, self.config)) for comp in self.graph.netlist.components
-                 if not _ignored(comp)]
+        kinds = ((comp, classify(comp)) for comp in self.graph.netlist.components)
+        parts = [(comp, elements_of(comp, self.config, kind)) for comp, kind in kinds if not _ignored(comp, kind)]
         guards = _guards([e for _, elems in parts for e in elems or ()])
         for comp, elems in parts:
             if comp.ref in guards.values():

@@ -10,7 +10,7 @@ from ledlint.circuits.circuit import CircuitKind, LedCircuit, LedString, Wired
 from ledlint.circuits.shapes import Context, Junction, Recogniser, Span
 from ledlint.circuits.stages import sink_below
 from ledlint.circuits.topology import TerminalKind
-from ledlint.parts.kinds import Kind, LedId, classify, led_dies
+from ledlint.parts.kinds import LedId, led_dies
 
 
 @dataclass(frozen=True)
@@ -24,8 +24,8 @@ class Unrecognised(Wired):
 
 def from_parts(ctx: Context) -> Iterator[LedCircuit]:
     """A fitted LED die with its anode or cathode on no net."""
-    for comp in ctx.graph.netlist.components:
-        if comp.dnp or classify(comp) is not Kind.LED:
+    for comp in ctx.leds:
+        if comp.dnp:
             continue
         for d in led_dies(comp):
             open_pins = [n for n in (d.anode, d.cathode) if getattr(comp.pin(n), "net", None) is None]
@@ -45,9 +45,9 @@ def from_junction(ctx: Context, j: Junction) -> LedCircuit | None:
     elif not j.one_sided:
         reason = f"LED strings meet at {j.node} from both sides"
     elif (found := sink_below(ctx, j)) is not None:
-        reason = (f"strings on current sink {found[0].transistor.ref} start from {len(j.far_nets(ctx.topo))} "
+        reason = (f"strings on current sink {found[0].transistor.ref} start from {len(j.far_nets)} "
                   "different nets")
-    elif (odd := j.odd_end(ctx.topo)) is not None:
+    elif (odd := j.odd_end) is not None:
         reason = (f"strings sharing {j.node} continue to {odd.net} ({odd.detail or odd.kind.value}): not a supply, "
                   "ground or driver pin the tool follows")
         never = odd.kind is TerminalKind.OPEN
@@ -81,15 +81,13 @@ def from_span(ctx: Context, span: Span) -> Iterator[LedCircuit]:
 
 def leftovers(ctx: Context) -> Iterator[LedCircuit]:
     """Every LED die no kind claimed."""
-    for comp in ctx.graph.netlist.components:
-        if classify(comp) is not Kind.LED:
-            continue
+    for comp in ctx.leds:
         for d in led_dies(comp):
             i = LedId(comp.ref, d.name)
             if i not in ctx.claimed:
                 yield Unrecognised(*ctx.place([i]), reason=f"{i} is in a connection the tool does not follow")
-    for comp in ctx.graph.netlist.components:
-        if classify(comp) is Kind.LED and not led_dies(comp) and LedId(comp.ref) not in ctx.claimed:
+    for comp in ctx.leds:
+        if not led_dies(comp) and LedId(comp.ref) not in ctx.claimed:
             if len(comp.pins) < 2:  # the other pin is on no net, and no library part lists it
                 what = "only one pin of it is" if comp.pins else "none of its pins is"
                 yield Unrecognised(*ctx.place([LedId(comp.ref)]),

@@ -20,6 +20,9 @@ MIN_CURRENT = "min_current"
 HOTTEST = "hottest_junction"
 MAX_RESISTOR_POWER = "max_resistor_power"
 _LOW_R, _HIGH_R = "resistor_power_low_r", "resistor_power_high_r"
+# Different strings in one bank the hogging corners are solved for: each kind adds two rows as
+# wide as the bank, so the work grows with its square. Far beyond a real board's few part types.
+MAX_STRING_KINDS = 256
 
 
 def _end(r: Range, high: bool) -> float:
@@ -71,15 +74,51 @@ def _rows(circuit: Circuit) -> list[_Row]:
         rows.append(_ends(circuit, HOTTEST, True, False, r_min, vf_max, True))
     if len(branches) >= 2:
         branch_of = np.array(circuit.branch_of_led)
-        for j, k in enumerate(branch_of):
+        kinds = sorted(set(_representatives(circuit)))
+        if len(kinds) > MAX_STRING_KINDS:  # each kind costs two corners the width of the whole bank
+            raise ModelError(f"{len(kinds)} different strings in parallel: the engine solves banks of up to "
+                             f"{MAX_STRING_KINDS} different ones")
+        for k in kinds:
             mine, own_r = branch_of == k, np.arange(len(branches)) == k
-            # LED j's whole string at its lowest Vf and least resistance, the other strings
-            # at their highest, so that the string takes the largest share: it hogs.
-            rows.append(_ends(circuit, f"worst_high[{j}]", True, False,
+            # String k at its lowest Vf and least resistance, the other strings at their highest,
+            # so that it takes the largest share: it hogs. (A string identical to one already
+            # solved hogs the same, by symmetry: one corner serves them all.)
+            rows.append(_ends(circuit, f"worst_high[{k}]", True, False,
                               np.where(own_r, r_min, r_max), np.where(mine, vf_min, vf_max), True))
-            rows.append(_ends(circuit, f"worst_low[{j}]", False, True,
+            rows.append(_ends(circuit, f"worst_low[{k}]", False, True,
                               np.where(own_r, r_max, r_min), np.where(mine, vf_max, vf_min), False))
     return rows
+
+
+def _representatives(circuit: Circuit) -> list[int]:
+    """For each string, the first string identical to it (same LEDs, same resistor range)."""
+    first: dict[object, int] = {}
+    return [first.setdefault(b, k) for k, b in enumerate(circuit.branches)]
+
+
+@dataclass(frozen=True)
+class _Twins:
+    """Where each LED's and string's hogging figures are: the hogging corners of the first string
+    identical to its own, at the LED in the same place. -1 where there are no hogging corners."""
+
+    led: NDArray[np.intp]  # (L,) the LED standing in for each LED
+    high: NDArray[np.intp]  # (L,) the row where that LED's string hogs
+    low: NDArray[np.intp]  # (L,) the row where it is starved
+    branch: NDArray[np.intp]  # (K,) the string standing in for each string
+    branch_high: NDArray[np.intp]  # (K,) the row where that string hogs
+
+    @classmethod
+    def of(cls, circuit: Circuit, names: list[str]) -> _Twins:
+        reps = _representatives(circuit)
+        starts = np.concatenate([[0], np.cumsum([len(b.leds) for b in circuit.branches])[:-1]]).astype(np.intp)
+        led, high, low = [], [], []
+        for k, b in enumerate(circuit.branches):
+            for i in range(len(b.leds)):
+                led.append(int(starts[reps[k]]) + i)
+                high.append(names.index(f"worst_high[{reps[k]}]") if len(reps) >= 2 else -1)
+                low.append(names.index(f"worst_low[{reps[k]}]") if len(reps) >= 2 else -1)
+        branch_high = [names.index(f"worst_high[{r}]") if len(reps) >= 2 else -1 for r in reps]
+        return cls(*(np.array(x, dtype=np.intp) for x in (led, high, low, reps, branch_high)))
 
 
 def _cases(circuit: Circuit, rows: list[_Row]) -> Cases:
@@ -103,6 +142,7 @@ class Corners:
     names: tuple[str, ...]
     cases: Cases
     solution: Solution
+    twins: _Twins
 
     def index(self, name: str) -> int:
         try:
@@ -133,43 +173,81 @@ class Corners:
     def max_resistor_power(self) -> OperatingPoint:
         return self.point(MAX_RESISTOR_POWER)
 
-    def _per_led(self, prefix: str) -> tuple[OperatingPoint, ...]:
+    def _per_string(self, prefix: str) -> tuple[OperatingPoint, ...]:
         return tuple(self.solution.point(s) for s, name in enumerate(self.names)
                      if name.startswith(prefix))
 
     @property
     def worst_high(self) -> tuple[OperatingPoint, ...]:
-        """Per LED, the corner where it hogs (banks only; empty for one string)."""
-        return self._per_led("worst_high[")
+        """Per kind of string, the corner where it hogs (banks only; empty for one string)."""
+        return self._per_string("worst_high[")
 
     @property
     def worst_low(self) -> tuple[OperatingPoint, ...]:
-        """Per LED, the corner where it is starved (banks only; empty for one string)."""
-        return self._per_led("worst_low[")
+        """Per kind of string, the corner where it is starved (banks only; empty for one string)."""
+        return self._per_string("worst_low[")
+
+    def _over_corners(self, values: Array, largest: bool) -> Array:
+        """Per LED, the largest (or least) of `values` (S, L) over every corner, its own string's
+        hogging corners counted through the identical string that stands in for it."""
+        t = self.twins
+        out = values.max(axis=0) if largest else values.min(axis=0)
+        if t.high.size and t.high[0] >= 0:
+            pick = np.maximum if largest else np.minimum
+            out = pick(out, pick(values[t.high, t.led], values[t.low, t.led]))
+        return np.asarray(out)
 
     @property
     def led_current_max(self) -> Array:
         """Each LED's largest current over all corners, (L,)."""
-        return np.asarray(self.solution.led_current.max(axis=0))
+        return self._over_corners(self.solution.led_current, True)
 
     @property
     def led_current_min(self) -> Array:
-        return np.asarray(self.solution.led_current.min(axis=0))
+        return self._over_corners(self.solution.led_current, False)
+
+    @property
+    def tj_max(self) -> Array:
+        """Each LED's hottest junction over all corners, °C, (L,)."""
+        return self._over_corners(self.solution.tj, True)
+
+    @property
+    def led_voltage_min(self) -> Array:
+        """Each LED's least voltage over all corners (most reverse), (L,)."""
+        return self._over_corners(self.solution.led_voltage, False)
+
+    def _branch_max(self, values: Array) -> Array:
+        t = self.twins
+        out = values.max(axis=0)
+        if t.branch_high.size and t.branch_high[0] >= 0:
+            out = np.maximum(out, values[t.branch_high, t.branch])
+        return np.asarray(out)
+
+    @property
+    def branch_current_max(self) -> Array:
+        """Each string's largest current over all corners, (K,)."""
+        return self._branch_max(self.solution.branch_current)
+
+    @property
+    def branch_resistor_power_max(self) -> Array:
+        """The most each string's own resistor dissipates over all corners, W, (K,)."""
+        return self._branch_max(self.solution.branch_resistor_power)
 
     @property
     def ballast_power_max(self) -> float:
         return float(self.solution.ballast_power.max())
 
 
-def _named(rows: list[_Row], cases: Cases, solution: Solution) -> Corners:
+def _named(circuit: Circuit, rows: list[_Row], cases: Cases, solution: Solution) -> Corners:
     names = [r.name for r in rows]
     power = solution.ballast_power + solution.branch_resistor_power.sum(axis=1)
     low, high = names.index(_LOW_R), names.index(_HIGH_R)
     keep, drop = (low, high) if power[low] >= power[high] else (high, low)
     names[keep] = MAX_RESISTOR_POWER
     rows_kept = np.array([s for s in range(len(names)) if s != drop])
-    return Corners(names=tuple(names[s] for s in rows_kept), cases=cases.take(rows_kept),
-                   solution=solution.take(rows_kept))
+    kept = [names[s] for s in rows_kept]
+    return Corners(names=tuple(kept), cases=cases.take(rows_kept), solution=solution.take(rows_kept),
+                   twins=_Twins.of(circuit, kept))
 
 
 def corners_many(circuits: Sequence[Circuit]) -> list[Corners]:
@@ -182,7 +260,7 @@ def corners_many(circuits: Sequence[Circuit]) -> list[Corners]:
         solution = heated(setup, concat(cases))
         start = 0
         for c, r, cs in zip(group, rows, cases):
-            done[c] = _named(r, cs, solution.take(np.arange(start, start + len(r))))
+            done[c] = _named(c, r, cs, solution.take(np.arange(start, start + len(r))))
             start += len(r)
     return [done[c] for c in circuits]
 

@@ -185,6 +185,7 @@ def _transistor_kind(component: Component, text: str) -> Kind | None:
 # Kinds and LED dies already worked out, by component identity (see _remembered).
 _KINDS: dict[int, tuple[Component, Kind]] = {}
 _DIES: dict[int, tuple[Component, tuple[Die, ...]]] = {}
+_DESCRIBED: dict[tuple[object, ...], Kind] = {}
 _KINDS_MAX = 250_000
 
 
@@ -195,7 +196,20 @@ def led_parts(components: Iterable[Component]) -> int:
 
 def classify(component: Component) -> Kind:
     """The component's kind (see Kind)."""
-    return _remembered(_KINDS, component, _classify)
+    return _remembered(_KINDS, component, _by_description)
+
+
+def _by_description(component: Component) -> Kind:
+    """A kind is a matter of the part's words, reference letters and pins: a board's hundreds of
+    identical resistors are classified once."""
+    key = (re.sub(r"[^A-Za-z].*", "", component.ref), component.lib, component.part, _text(component),
+           tuple((p.name, p.number) for p in component.pins))
+    kind = _DESCRIBED.get(key)
+    if kind is None:
+        if len(_DESCRIBED) >= _KINDS_MAX:
+            _DESCRIBED.clear()
+        kind = _DESCRIBED[key] = _classify(component)
+    return kind
 
 
 _T = TypeVar("_T")
