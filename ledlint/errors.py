@@ -5,6 +5,8 @@ from __future__ import annotations
 import re
 from pathlib import Path
 
+from ledlint.sanitise import shown
+
 _LINE_BREAK = re.compile(rb"\r\n|\n|\r")
 
 
@@ -19,10 +21,13 @@ class LedlintError(Exception):
         self.column = column
 
     def __str__(self) -> str:
+        # One line, whatever the file or its contents hold: a name with a newline or an escape
+        # sequence must not forge a second error line or reach the terminal.
+        message = shown(self.message)
         if not self.path:
-            return f"ledlint: error: {self.message}"
-        where = self.path + (f":{self.line}:{self.column or 1}" if self.line else "")
-        return f"{where}: error: {self.message}"
+            return f"ledlint: error: {message}"
+        where = shown(self.path) + (f":{self.line}:{self.column or 1}" if self.line else "")
+        return f"{where}: error: {message}"
 
 
 class InputError(LedlintError):

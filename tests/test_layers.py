@@ -11,7 +11,7 @@ import ledlint.rules
 # Left to right; modules in one group may import each other. Names are ledlint's first-level
 # modules or packages ("engine" covers ledlint.engine.*).
 ORDER = [
-    {"__init__", "__version__", "errors", "frozen", "paths"},
+    {"__init__", "__version__", "errors", "frozen", "paths", "sanitise"},
     {"quantities"},
     {"engine"},
     {"netlist"},

@@ -78,6 +78,7 @@ class Finding:
     waived: str = ""  # the reason, when a waiver silences it
     waived_in_source: bool = False  # the waiver is written on a part in the design itself
     topic: str = ""  # what the finding is about, when one rule says several things of the same parts
+    long_texts: tuple[str, ...] = ()  # whole runs of text the message, hint or assumptions show cut
 
     def __post_init__(self) -> None:
         if not self.fingerprint:

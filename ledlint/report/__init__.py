@@ -3,29 +3,21 @@ the wording they share."""
 
 from __future__ import annotations
 
-import re
-
 from ledlint.analysis.summary import CircuitRow, Outcome
+from ledlint.sanitise import clip, printable, shown
 
-# C0 and C1 control characters but tab and newline: a netlist could carry terminal escapes in a
-# name or value, and a report must not pass them to the reader's terminal or CI log.
-_CONTROL = re.compile(r"[\x00-\x08\x0b-\x1f\x7f-\x9f]")
-
-
-def printable(text: str) -> str:
-    """Text with control characters shown as U+FFFD."""
-    return _CONTROL.sub("\ufffd", text)
-
+__all__ = ["MAX_NOTES", "SAFETY", "circuit_note", "printable", "refs_text", "shown"]
 
 SAFETY = ("Mains and high-voltage LED circuits can kill. These findings are a review aid, not a safety "
           "assessment: follow the applicable safety standards and local codes, and have the design "
           "reviewed by a qualified person.")
 _MAX_REFS = 8
+MAX_NOTES = 20  # reader notes a human-facing report lists per file; JSON and SARIF keep them all
 
 
 def refs_text(refs: tuple[str, ...]) -> str:
     """Part references as a report lists them: the first eight, then how many in all."""
-    return ", ".join(refs[:_MAX_REFS]) + (f" … ({len(refs)} parts)" if len(refs) > _MAX_REFS else "")
+    return ", ".join(map(clip, refs[:_MAX_REFS])) + (f" … ({len(refs)} parts)" if len(refs) > _MAX_REFS else "")
 
 
 _OUTCOME = {

@@ -3,7 +3,8 @@
 from __future__ import annotations
 
 from ledlint.checks.findings import Finding, Severity
-from ledlint.report import printable
+from ledlint.report import MAX_NOTES
+from ledlint.sanitise import clip, printable
 from ledlint.paths import posix_path
 from ledlint.report.markdown import summary, unused_waiver
 from ledlint.report import SAFETY
@@ -14,8 +15,9 @@ _MAX_REFS = 6  # in an annotation title; the message names the rest
 
 
 def escape_data(text: str) -> str:
-    """The runner's escapes for a command's message: %, CR and LF."""
-    return printable(text.replace("%", "%25").replace("\r", "%0D").replace("\n", "%0A"))
+    """The runner's escapes for a command's message: %, CR and LF (a line break in a message is the
+    runner's %0A, never a new log line); then no other unsafe character."""
+    return printable(clip(text).replace("%", "%25").replace("\r", "%0D").replace("\n", "%0A"))
 
 
 def escape_property(text: str) -> str:
@@ -42,7 +44,7 @@ def render(result: RunResult) -> str:
         lines += [command("warning", f"{c}. {SAFETY}", file=posix_path(fr.path), title="ledlint caution")
                   for c in fr.summary.cautions]
         lines += [command("notice", f"reader note: {n.message}", file=posix_path(fr.path), line=n.line,
-                          col=n.column, title="ledlint reader") for n in fr.summary.notes]
+                          col=n.column, title="ledlint reader") for n in fr.summary.notes[:MAX_NOTES]]
     lines += [command("warning", unused_waiver(w), title="ledlint waiver") for w in result.unused_waivers]
     lines += [command("warning", f"unused setting {s}", title="ledlint configuration") for s in result.unused_settings]
     lines.append("ledlint: " + summary(result))

@@ -2,12 +2,12 @@
 
 from __future__ import annotations
 
-import json
 from typing import Any
 
 from ledlint import __version__
 from ledlint.checks.findings import Finding
 from ledlint.report import circuit_note
+from ledlint.sanitise import clip_all, json_text, text_id
 from ledlint.analysis.summary import CircuitRow
 from ledlint.review.diff import NetlistDiff, Reading
 from ledlint.review.run import RunResult
@@ -51,7 +51,7 @@ def document(result: RunResult) -> dict[str, Any]:
             "notes": [{"line": x.line, "column": x.column, "message": x.message} for x in s.notes],
             "cautions": list(s.cautions),
         })
-    return {
+    doc: dict[str, Any] = {
         "schema": SCHEMA,
         "tool": {"name": "ledlint", "version": __version__},
         "summary": result.counts() | {"files": len(result.files),
@@ -64,10 +64,21 @@ def document(result: RunResult) -> dict[str, Any]:
         "unused_settings": list(result.unused_settings),
         "circuits": [row_json(c) for r in result.files for c in r.summary.rows],
     }
+    return _with_long_texts(doc, [t for r in result.files for f in (*r.findings, *r.waived) for t in f.long_texts])
+
+
+def _with_long_texts(doc: dict[str, Any], texts: list[str]) -> dict[str, Any]:
+    """The document with every text too long to read cut, and kept whole once in "long_texts" under
+    the name the cut shows: a name of megabytes must not be repeated in every finding."""
+    cut = {text_id(t): t for t in texts}  # the findings' messages, cut when they were made
+    out: dict[str, Any] = clip_all(doc, cut)  # type: ignore[assignment]  # a dict stays a dict
+    if cut:
+        out["long_texts"] = cut
+    return out
 
 
 def render(result: RunResult) -> str:
-    return json.dumps(document(result), indent=2, ensure_ascii=False) + "\n"
+    return json_text(document(result))
 
 
 def _reading_json(r: Reading | None) -> dict[str, float | None] | None:
@@ -75,11 +86,9 @@ def _reading_json(r: Reading | None) -> dict[str, float | None] | None:
 
 
 def diff_document(d: NetlistDiff) -> dict[str, Any]:
-    return {
-        "schema": DIFF_SCHEMA,
-        "tool": {"name": "ledlint", "version": __version__},
-        "old": d.old_path,
-        "new": d.new_path,
+    head = {"schema": DIFF_SCHEMA, "tool": {"name": "ledlint", "version": __version__},
+            "old": d.old_path, "new": d.new_path}  # paths, kept whole
+    doc = {
         "summary": d.counts(),
         "circuits": [{
             "status": c.status.value, "id": c.id, "old_id": c.old.id if c.old else None,
@@ -94,7 +103,9 @@ def diff_document(d: NetlistDiff) -> dict[str, Any]:
         "findings_appeared": [finding_json(f) for f in d.appeared],
         "findings_gone": [finding_json(f) for f in d.gone],
     }
+    shown = (*d.appeared, *d.gone, *(f for c in d.circuits for f in (*c.appeared, *c.gone)))
+    return head | _with_long_texts(doc, [t for f in shown for t in f.long_texts])
 
 
 def render_diff(d: NetlistDiff) -> str:
-    return json.dumps(diff_document(d), indent=2, ensure_ascii=False) + "\n"
+    return json_text(diff_document(d))

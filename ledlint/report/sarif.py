@@ -2,12 +2,12 @@
 
 from __future__ import annotations
 
-import json
 import textwrap
 from pathlib import Path
 from typing import Any
 from urllib.parse import quote
 
+from ledlint.sanitise import clip_all, json_text, text_id
 from ledlint import __version__
 from ledlint.checks.findings import Finding, Severity
 from ledlint.analysis.summary import BoardSummary
@@ -140,19 +140,22 @@ def document(result: RunResult, start: str | Path | None = None) -> dict[str, An
     for fr in result.files:
         uri = artifact_uri(fr.path, start)
         results += [_result(f, fr, index, uri) for f in (*fr.findings, *fr.waived)]
-    return {
-        "$schema": SARIF_SCHEMA,
-        "version": SARIF_VERSION,
-        "runs": [{
-            "tool": {"driver": {"name": "ledlint", "version": __version__, "semanticVersion": __version__,
-                                "rules": [rule_descriptor(r) for r in result.rules]}},
-            "invocations": [{"executionSuccessful": True,
-                             "toolExecutionNotifications": _notifications(result, start)}],
-            "columnKind": "unicodeCodePoints",
-            "results": results,
-        }],
+    run: dict[str, Any] = {
+        "tool": {"driver": {"name": "ledlint", "version": __version__, "semanticVersion": __version__,
+                            "rules": [rule_descriptor(r) for r in result.rules]}},
+        "invocations": [{"executionSuccessful": True,
+                         "toolExecutionNotifications": _notifications(result, start)}],
+        "columnKind": "unicodeCodePoints",
+        "results": results,
     }
+    # A text of megabytes is cut wherever it shows, and kept whole once in the run's property bag
+    # (SARIF 2.1.0 §3.8), as the JSON report keeps it.
+    cut = {text_id(t): t for fr in result.files for f in (*fr.findings, *fr.waived) for t in f.long_texts}
+    run = clip_all(run, cut)  # type: ignore[assignment]  # a dict stays a dict
+    if cut:
+        run["properties"] = {"long_texts": cut}
+    return {"$schema": SARIF_SCHEMA, "version": SARIF_VERSION, "runs": [run]}
 
 
 def render(result: RunResult) -> str:
-    return json.dumps(document(result), indent=2, ensure_ascii=False) + "\n"
+    return json_text(document(result))

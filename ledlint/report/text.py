@@ -10,7 +10,8 @@ from rich.markup import escape
 from rich.table import Table
 
 from ledlint.checks.findings import Finding, Severity, quantity
-from ledlint.report import SAFETY, circuit_note, printable, refs_text
+from ledlint.report import MAX_NOTES, SAFETY, circuit_note, refs_text, shown
+from ledlint.sanitise import clip
 from ledlint.analysis.summary import BoardSummary, CircuitRow
 from ledlint.paths import posix_path
 from ledlint.review.diff import NetlistDiff, Status
@@ -27,7 +28,7 @@ _INDENT = 8
 
 def _wrapped(label: str, body: str, width: int, style: str = "") -> list[str]:
     """Lines with a right-aligned label and a hanging indent, escaped for rich markup."""
-    lines = textwrap.wrap(printable(body), width=max(width - _INDENT, 20), break_on_hyphens=False) or [""]
+    lines = textwrap.wrap(shown(body), width=max(width - _INDENT, 20), break_on_hyphens=False) or [""]
     pad = " " * (_INDENT - 1 - len(label))
     head = f"{pad}[{style}]{escape(label)}[/] " if style else f"{pad}{escape(label)} "
     out = [head + escape(lines[0])]
@@ -38,7 +39,7 @@ def _wrapped(label: str, body: str, width: int, style: str = "") -> list[str]:
 def _finding(f: Finding, width: int) -> list[str]:
     where = f"line {f.line}" if f.line else ""
     refs = refs_text(f.refs)
-    head = " · ".join(x for x in (f.rule, where, refs, ("nets " + ", ".join(f.nets)) if f.nets else "") if x)
+    head = " · ".join(x for x in (f.rule, where, refs, ("nets " + ", ".join(map(clip, f.nets))) if f.nets else "") if x)
     lines = _wrapped(f.severity.value.upper(), head, width, _STYLE[f.severity])
     lines += _wrapped("", f.message, width)
     if f.hint:
@@ -68,14 +69,14 @@ def _circuit_table(rows: list[CircuitRow]) -> Table:
         leds = ", ".join(r.leds) if len(r.leds) <= 3 else f"{r.leds[0]} … ({len(r.leds)})"
         if r.current is None:
             note = circuit_note(r)
-            nom, rng = "—", escape(_short(note)) if note else "—"
+            nom, rng = "—", _short(note) if note else "—"
         else:
             nom, rng = _amps(r.current[0]), f"{_amps(r.current[1])} – {_amps(r.current[2])}"
         ends = f"{r.supply_net or (f'rail {r.rail}' if r.rail else '?')} → {r.return_net or '?'}"
-        cells = (r.id, _SHORT.get(r.kind, r.kind), leds, escape(ends), ", ".join(r.ballast) or "—", nom, rng,
+        cells = (r.id, _SHORT.get(r.kind, r.kind), leds, ends, ", ".join(r.ballast) or "—", nom, rng,
                  "—" if r.resistor_power_w is None else quantity(r.resistor_power_w, "W"),
                  "—" if r.headroom_v is None else quantity(r.headroom_v, "V"))
-        table.add_row(*map(printable, cells))
+        table.add_row(*(escape(shown(c)) for c in cells))  # names from the netlist are text, not markup
     return table
 
 
@@ -99,11 +100,13 @@ def _print_wide(console: Console, table: Table) -> None:
 def _file(console: Console, fr: FileResult, circuits: bool) -> None:
     s = fr.summary
     leds = f"{s.leds} LED(s)" + (f" ({s.dies} dies)" if s.dies > s.leds else "")
-    console.print(f"[bold]{escape(printable(fr.path))}[/]  {s.components} parts, {s.nets} nets, "
+    console.print(f"[bold]{escape(shown(fr.path))}[/]  {s.components} parts, {s.nets} nets, "
                   f"{leds} in {s.circuits} circuit(s), "
-                  f"{_coverage(s)} · {escape(printable(s.tool or 'unknown tool'))}", soft_wrap=True)
-    for note in s.notes:
-        console.print(f"  [dim]reader note, line {note.line}: {escape(printable(note.message))}[/]")
+                  f"{_coverage(s)} · {escape(shown(s.tool or 'unknown tool'))}", soft_wrap=True)
+    for note in s.notes[:MAX_NOTES]:
+        console.print(f"  [dim]reader note, line {note.line}: {escape(shown(note.message))}[/]")
+    if len(s.notes) > MAX_NOTES:
+        console.print(f"  [dim]… and {len(s.notes) - MAX_NOTES} more reader notes (see --format json)[/]")
     if fr.findings:
         console.print("\n".join(line for f in fr.findings for line in _finding(f, console.width)), soft_wrap=True)
     if fr.waived:
@@ -113,7 +116,7 @@ def _file(console: Console, fr: FileResult, circuits: bool) -> None:
     if circuits and s.rows:
         _print_wide(console, _circuit_table(list(s.rows)))
     for c in s.cautions:
-        console.print(f"[bold red]CAUTION[/] {escape(printable(c))}. {SAFETY}")
+        console.print(f"[bold red]CAUTION[/] {escape(shown(c))}. {SAFETY}")
     console.print()
 
 
@@ -124,10 +127,10 @@ def render(result: RunResult, *, circuits: bool = False, color: bool = False, wi
     for fr in result.files:
         _file(console, fr, circuits)
     for w in result.unused_waivers:
-        console.print(f"[yellow]unused waiver[/] {escape(w.rule)} for {escape(w.ref or w.fingerprint)} "
-                      f"({escape(w.origin)}): it silences nothing")
+        console.print(f"[yellow]unused waiver[/] {escape(shown(w.rule))} for {escape(shown(w.ref or w.fingerprint))} "
+                      f"({escape(shown(w.origin))}): it silences nothing")
     for s in result.unused_settings:
-        console.print(f"[yellow]unused setting[/] {escape(s)}")
+        console.print(f"[yellow]unused setting[/] {escape(shown(s))}")
     counts = result.counts()
     total = sum(fr.summary.circuits for fr in result.files)
     analysed = sum(fr.summary.analysed for fr in result.files)

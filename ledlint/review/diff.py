@@ -90,10 +90,10 @@ class Edit:
     def text(self) -> str:
         if self.what == "part":
             return f"{self.ref} {'added' if self.old is None else 'removed'}"
-        return f"{self.ref} {self.what} {shown(self.old)} → {shown(self.new)}"
+        return f"{self.ref} {self.what} {edit_text(self.old)} → {edit_text(self.new)}"
 
 
-def shown(text: str | None) -> str:
+def edit_text(text: str | None) -> str:
     """A field's text as a change shows it: — for none, quoted when blank or padded."""
     return "—" if text is None else repr(text) if not text or text != text.strip() else text
 
