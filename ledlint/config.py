@@ -82,6 +82,12 @@ class Config:
     symbols: Mapping[str, Mapping[str, str]] = field(default_factory=_empty)
     rules: Mapping[str, Mapping[str, Any]] = field(default_factory=_empty)  # checked by the registry
     waivers: tuple[Waiver, ...] = ()
+    positions: Mapping[tuple[str, ...], tuple[int, int]] = field(default_factory=lambda: FrozenMap({}))
+
+    def error(self, message: str) -> ConfigError:
+        """An error about this configuration, at the line and column of the table or key the
+        message names ("[rules.x] margin: …")."""
+        return ConfigError(message, self.path, *locate(self.positions, message))
 
     def part_settings(self, ref: str, value: str, lib: str, part: str) -> dict[str, tuple[str, str]]:
         """Configured parameters for one component: key → (text, where it was set).
@@ -254,11 +260,12 @@ def _waivers(raw: Any, path: str) -> tuple[Waiver, ...]:
     return tuple(out)
 
 
-def from_mapping(data: Mapping[str, Any], path: str = "") -> Config:
+def from_mapping(data: Mapping[str, Any], path: str = "",
+                 positions: Mapping[tuple[str, ...], tuple[int, int]] | None = None) -> Config:
     """Build a Config from parsed TOML, raising ConfigError on anything unknown or malformed."""
     _check_keys(data, _TOP_KEYS, "top level", path)
     data = {k.casefold(): v for k, v in data.items()}
-    kwargs: dict[str, Any] = {"path": path}
+    kwargs: dict[str, Any] = {"path": path, "positions": FrozenMap(positions or {})}
     if "ambient" in data:
         amb = _table(data["ambient"], "[ambient]", path)
         _check_keys(amb, _AMBIENT_KEYS, "[ambient]", path)
@@ -282,7 +289,8 @@ def from_mapping(data: Mapping[str, Any], path: str = "") -> Config:
 
 
 def load(path: str | Path) -> Config:
-    """Read a ledlint.toml file, or the [tool.ledlint] table of a pyproject.toml."""
+    """Read a ledlint.toml file, or the [tool.ledlint] table of a pyproject.toml. Every error names
+    its line and column."""
     p = Path(path)
     name = str(path)
     text = read_utf8(p, "configuration file", ConfigError)
@@ -293,9 +301,71 @@ def load(path: str | Path) -> Config:
         line, col = (int(m.group(1)), int(m.group(2))) if m else (0, 0)
         reason = str(exc)[: m.start()].strip() if m else str(exc)
         raise ConfigError(f"not valid TOML: {reason}", name, line, col) from None
+    except RecursionError:  # tomllib recurses per nested inline table or array
+        raise ConfigError("not valid TOML: nested too deeply", name) from None
+    positions = key_positions(text)
     if p.name == "pyproject.toml":
-        data = data.get("tool", {}).get("ledlint", {})
-    return from_mapping(data, name)
+        tool = data.get("tool")
+        data = tool.get("ledlint", {}) if isinstance(tool, dict) else {}
+        if not isinstance(data, dict):
+            raise ConfigError(f"[tool.ledlint] must be a table, not {type(data).__name__}", name,
+                              *positions.get(("tool", "ledlint"), (0, 0)))
+        positions = {k[2:]: v for k, v in positions.items() if k[:2] == ("tool", "ledlint")}
+    try:
+        return from_mapping(data, name, positions)
+    except ConfigError as exc:
+        if exc.line or exc.path != name:
+            raise
+        raise ConfigError(exc.message, name, *locate(positions, exc.message)) from None
+
+
+_TABLE = re.compile(r"\s*(\[\[?)\s*(.+?)\s*\]\]?\s*(?:#.*)?$")
+_KEY = re.compile(r"\s*((?:\"(?:[^\"\\]|\\.)*\"|'[^']*'|[A-Za-z0-9_-]+)(?:\s*\.\s*(?:\"(?:[^\"\\]|\\.)*\"|'[^']*'|[A-Za-z0-9_-]+))*)\s*=")
+_PART = re.compile(r"\"((?:[^\"\\]|\\.)*)\"|'([^']*)'|([A-Za-z0-9_-]+)")
+
+
+def _dotted(text: str) -> tuple[str, ...]:
+    return tuple(m.group(1) if m.group(1) is not None else m.group(2) if m.group(2) is not None else m.group(3)
+                 for m in _PART.finditer(text))
+
+
+def key_positions(text: str) -> dict[tuple[str, ...], tuple[int, int]]:
+    """Where each table and key of a TOML text is written, by its dotted path: ("rails", "VCC",
+    "nominal"), and an array of tables by its count, ("waivers", "#2"). Read line by line, as
+    a configuration writes them; what is not found is simply not placed."""
+    out: dict[tuple[str, ...], tuple[int, int]] = {}
+    table: tuple[str, ...] = ()
+    counts: dict[tuple[str, ...], int] = {}
+    for number, line in enumerate(text.splitlines(), start=1):
+        if (m := _TABLE.match(line)) is not None:
+            table = _dotted(m.group(2))
+            if m.group(1) == "[[":
+                counts[table] = counts.get(table, 0) + 1
+                table = (*table, f"#{counts[table]}")
+            out.setdefault(table, (number, m.start(1) + 1))
+        elif (m := _KEY.match(line)) is not None:
+            out.setdefault((*table, *_dotted(m.group(1))), (number, m.start(1) + 1))
+    return out
+
+
+# How an error message names what it is about: "[rails.'VCC'] nominal: …", "[[waivers]] #2: …",
+# "top level: unknown key 'x'".
+_WHERE = re.compile(r"\[\[?([^\]]+)\]\]?(?:\s+(#\d+))?(?:\s+([A-Za-z0-9_-]+))?|top level: unknown key '([^']*)'")
+
+
+def locate(positions: Mapping[tuple[str, ...], tuple[int, int]], message: str) -> tuple[int, int]:
+    """The line and column of the table or key an error message names; (0, 0) when not found."""
+    m = _WHERE.search(message)
+    if m is None:
+        return 0, 0
+    if m.group(4) is not None:
+        return positions.get((m.group(4),), (0, 0))
+    path = (*_dotted(m.group(1)), *([m.group(2)] if m.group(2) else []))
+    unknown = re.search(r"unknown (?:key|option) '([^']*)'", message)
+    for candidate in ([(*path, unknown.group(1))] if unknown else []) + [(*path, m.group(3)), path]:
+        if candidate and None not in candidate and tuple(candidate) in positions:
+            return positions[tuple(candidate)]
+    return 0, 0
 
 
 _OUR_TABLE = re.compile(r"^\s*\[\s*tool\s*\.\s*ledlint\b", re.M)
@@ -303,24 +373,35 @@ _OUR_TABLE = re.compile(r"^\s*\[\s*tool\s*\.\s*ledlint\b", re.M)
 
 def discover(netlist_path: str | Path) -> Path | None:
     """The configuration that applies to a netlist: the nearest ledlint.toml, or pyproject.toml
-    with a [tool.ledlint] table, in the netlist's folder or a parent folder."""
+    with a [tool.ledlint] table, in the netlist's folder or a parent folder. Both in one folder
+    is an error: which one was meant cannot be told."""
     folder = Path(netlist_path).resolve().parent
     for d in (folder, *folder.parents):
-        candidate = d / CONFIG_NAME
+        candidate, py = d / CONFIG_NAME, d / "pyproject.toml"
+        ours = py.is_file() and _configures_us(py)
         if candidate.is_file():
+            if ours:
+                raise ConfigError(f"both {candidate} and the [tool.ledlint] table of this file configure ledlint; "
+                                  "keep one", str(py))
             return candidate
-        py = d / "pyproject.toml"
-        if py.is_file():
-            try:
-                text = py.read_text(encoding="utf-8")
-            except (OSError, UnicodeDecodeError):
-                continue
-            try:
-                if "ledlint" in tomllib.loads(text).get("tool", {}):
-                    return py
-            except tomllib.TOMLDecodeError:
-                # Broken, but meant for us: load() then reports where, rather than the
-                # settings being silently dropped.
-                if _OUR_TABLE.search(text):
-                    return py
+        if ours:
+            return py
     return None
+
+
+def _configures_us(py: Path) -> bool:
+    """A pyproject.toml with a [tool.ledlint] table. Another project's file, however odd (its
+    `tool` not a table, a syntax error elsewhere), is not ours and is passed over."""
+    try:
+        text = py.read_text(encoding="utf-8")
+    except (OSError, UnicodeDecodeError):
+        return False
+    try:
+        tool = tomllib.loads(text).get("tool")
+    except tomllib.TOMLDecodeError:
+        # Broken, but meant for us: load() then reports where, rather than the settings being
+        # silently dropped.
+        return bool(_OUR_TABLE.search(text))
+    except RecursionError:
+        return bool(_OUR_TABLE.search(text))
+    return isinstance(tool, dict) and "ledlint" in tool

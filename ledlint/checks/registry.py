@@ -15,7 +15,8 @@ from typing import Any, Callable, Iterator, Mapping
 from ledlint.analysis.results import Analysis, BoardAnalysis
 from ledlint.circuits.circuit import CircuitKind
 from ledlint.config import SEVERITIES, Config, suggest
-from ledlint.errors import ConfigError, LedlintError
+from ledlint.errors import LedlintError
+from ledlint.sanitise import clip, long_runs
 from ledlint.checks.findings import Finding, Severity, Value, render
 
 _ID = re.compile(r"^[a-z][a-z0-9]*(-[a-z0-9]+)*$")
@@ -80,10 +81,15 @@ class RuleContext:
                 hint: str = "", line: int | None = None, topic: str = "", **args: object) -> Finding:
         c = analysis.circuit
         named = {v.name: v for v in values}
-        return Finding(rule=self.rule.id, severity=severity, message=render(template, **named, **args), file=self.path,
+        message = render(template, **named, **args)
+        texts = (message, hint, *assumed)
+        # A value of megabytes is shown cut, and kept whole once in the machine-readable reports.
+        long = tuple(dict.fromkeys(run for t in texts for run in long_runs(t)))
+        return Finding(rule=self.rule.id, severity=severity, message=clip(message), file=self.path,
                        line=c.line if line is None else line, refs=refs if refs is not None else c.refs,
                        nets=nets if nets is not None else c.nets, sheet=c.sheet, values=values,
-                       assumed=tuple(dict.fromkeys(assumed)), hint=hint, circuit=c.id, template=template, topic=topic)
+                       assumed=tuple(dict.fromkeys(clip(a) for a in assumed)), hint=clip(hint), circuit=c.id,
+                       template=template, topic=topic, long_texts=long)
 
 
 def validate(rule: object, where: str) -> Rule:
@@ -112,27 +118,26 @@ def settings(rules: tuple[Rule, ...], config: Config) -> RuleSettings:
     severity: dict[str, str] = {}
     for rid, table in config.rules.items():
         if rid not in by_id:
-            raise ConfigError(f"[rules.{rid}]: no rule {rid!r}{suggest(rid, sorted(by_id))}", config.path)
+            raise config.error(f"[rules.{rid}]: no rule {rid!r}{suggest(rid, sorted(by_id))}")
         rule = by_id[rid]
         valid = [o.name for o in rule.options] + ["severity"]
         for key, value in table.items():
             if key not in valid:
-                raise ConfigError(f"[rules.{rid}]: unknown option {key!r}{suggest(key, valid)}", config.path)
+                raise config.error(f"[rules.{rid}]: unknown option {key!r}{suggest(key, valid)}")
             if key == "severity":
                 if value not in SEVERITIES:
-                    raise ConfigError(f"[rules.{rid}] severity: {value!r}{suggest(str(value), SEVERITIES)}",
-                                      config.path)
+                    raise config.error(f"[rules.{rid}] severity: {value!r}{suggest(str(value), SEVERITIES)}")
                 severity[rid] = value
             elif isinstance(value, bool) or not isinstance(value, (int, float)):
-                raise ConfigError(f"[rules.{rid}] {key}: expected a number, not {value!r}", config.path)
+                raise config.error(f"[rules.{rid}] {key}: expected a number, not {value!r}")
             else:
                 opt = next(o for o in rule.options if o.name == key)
                 if not opt.minimum <= value <= opt.maximum:
-                    raise ConfigError(f"[rules.{rid}] {key}: {value!r} is outside {opt.minimum:g} to {opt.maximum:g} "
-                                      f"({opt.unit})", config.path)
+                    raise config.error(f"[rules.{rid}] {key}: {value!r} is outside {opt.minimum:g} to "
+                                       f"{opt.maximum:g} ({opt.unit})")
     for w in config.waivers:
         if w.rule not in by_id:
-            raise ConfigError(f"{w.origin}: no rule {w.rule!r}{suggest(w.rule, sorted(by_id))}", config.path)
+            raise config.error(f"{w.origin}: no rule {w.rule!r}{suggest(w.rule, sorted(by_id))}")
     for rule in rules:
         merged = rule.option_defaults()
         merged.update({k: float(v) for k, v in config.rules.get(rule.id, {}).items() if k != "severity"})
