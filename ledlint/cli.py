@@ -3,7 +3,6 @@
 from __future__ import annotations
 
 import argparse
-import glob
 import importlib
 import os
 import sys
@@ -17,7 +16,9 @@ from typing import TYPE_CHECKING, Callable, Iterator, Sequence
 
 from ledlint import __version__
 from ledlint.errors import LedlintError, failure_reason
+from ledlint.sanitise import shown
 from ledlint.checks.findings import FAIL_LEVELS
+from ledlint.review.inputs import find_netlists
 from ledlint.review.rules import load_rules
 
 if TYPE_CHECKING:
@@ -41,27 +42,6 @@ BASELINE_NAME = "ledlint-baseline.json"  # ledlint.baseline.DEFAULT_NAME, likewi
 
 def _module(name: str) -> ModuleType:
     return importlib.import_module(name)
-
-
-def find_netlists(paths: Sequence[str]) -> list[Path]:
-    """Files as given; folders searched for *.net (hidden folders skipped); globs expanded."""
-    found: list[Path] = []
-    for raw in paths:
-        p = Path(raw)
-        if p.is_dir():
-            found.extend(sorted(f for f in p.rglob("*.net")
-                                if f.is_file() and not any(part.startswith(".") for part in f.relative_to(p).parts)))
-        elif not p.exists() and glob.has_magic(raw):
-            # A pattern names files: a folder it happens to match ("hw/**") is not a netlist.
-            matches = sorted(m for m in map(Path, glob.glob(raw, recursive=True)) if m.is_file())
-            if not matches:
-                raise LedlintError("no file matches this pattern", raw)
-            found.extend(matches)
-        else:
-            found.append(p)
-    if not found:
-        raise LedlintError("no *.net files found in " + ", ".join(paths))
-    return list(dict.fromkeys(found))
 
 
 def _parser() -> argparse.ArgumentParser:
@@ -97,12 +77,14 @@ def _parser() -> argparse.ArgumentParser:
     return parser
 
 
-def write_whole(out: str, destination: str | None) -> None:
+def write_whole(out: str, destination: str | None, inputs: Sequence[str | Path] = ()) -> None:
     """Write all of a report or none of it: to a temporary file first, then renamed into place.
 
-    A symlink is followed (its target is replaced, the link kept); a pipe or device is written
-    to as it is, since renaming a file over it would destroy it. A new file gets the usual
-    permissions (the umask's), a replaced one keeps its own."""
+    The path named is what is replaced: a symlink there becomes the report itself, and whatever
+    it pointed to is left alone (a link in a pull request must not aim the report at a file
+    elsewhere). A pipe or device, or a link to one, is written to as it is, since renaming a file
+    over it would destroy it. A path that is one of the run's inputs is refused. A new file gets
+    the usual permissions (the umask's), a replaced one keeps its own."""
     if destination is None:
         try:
             sys.stdout.write(out)
@@ -112,7 +94,9 @@ def write_whole(out: str, destination: str | None) -> None:
         except OSError as exc:
             raise LedlintError(f"cannot write the report to standard output: {failure_reason(exc)}") from None
         return
-    target = Path(os.path.realpath(destination))
+    target = Path(destination)
+    if any(_same_file(target, i) for i in inputs):
+        raise LedlintError("refusing to write the report over an input of this run", destination)
     if target.exists() and not target.is_file():
         try:
             with open(target, "w", encoding="utf-8") as fh:
@@ -127,7 +111,8 @@ def write_whole(out: str, destination: str | None) -> None:
     try:
         with os.fdopen(fd, "w", encoding="utf-8") as fh:
             fh.write(out)
-        os.chmod(tmp, target.stat().st_mode & 0o7777 if target.exists() else 0o666 & ~_umask())
+        kept = target.stat().st_mode & 0o7777 if target.is_file() and not target.is_symlink() else None
+        os.chmod(tmp, kept if kept is not None else 0o666 & ~_umask())
         os.replace(tmp, target)
     except OSError as exc:
         Path(tmp).unlink(missing_ok=True)
@@ -135,6 +120,13 @@ def write_whole(out: str, destination: str | None) -> None:
     except BaseException:
         Path(tmp).unlink(missing_ok=True)
         raise
+
+
+def _same_file(a: Path, b: str | Path) -> bool:
+    try:
+        return a.exists() and os.path.samefile(a, b)
+    except OSError:
+        return False
 
 
 def _umask() -> int:
@@ -180,6 +172,12 @@ def _render(fmt: str, result: RunResult, args: argparse.Namespace) -> str:
     return _module(FORMATS[fmt]).render(result)
 
 
+def _inputs(result: RunResult, args: argparse.Namespace) -> list[str]:
+    """What a run read: its netlists, their configuration files, a baseline."""
+    read = [f.path for f in result.files] + [f.config_path for f in result.files if f.config_path]
+    return read + [p for p in (getattr(args, "config", None), getattr(args, "baseline", None)) if p]
+
+
 def cmd_check(args: argparse.Namespace) -> int:
     from ledlint.review.run import check  # the analysis, numpy and the graph library load only to check
 
@@ -191,8 +189,8 @@ def cmd_check(args: argparse.Namespace) -> int:
         compared = baseline.compare(result, known)
         result = compared.result
         for line in compared.summary():
-            print(line, file=sys.stderr)
-    write_whole(_render(args.format, result, args), args.output)
+            print(shown(line), file=sys.stderr)
+    write_whole(_render(args.format, result, args), args.output, _inputs(result, args))
     return EXIT_FINDINGS if result.failed(args.fail_on) else EXIT_CLEAN
 
 
@@ -201,7 +199,7 @@ def cmd_baseline(args: argparse.Namespace) -> int:
 
     with _progress() as progress:
         result = check(find_netlists(args.paths), config_path=args.config, progress=progress)
-    write_whole(_module("ledlint.review.baseline").render(result, args.output), args.output)
+    write_whole(_module("ledlint.review.baseline").render(result, args.output), args.output, _inputs(result, args))
     print(f"{args.output}: recorded {len(result.findings)} finding(s) from {len(result.files)} file(s)",
           file=sys.stderr)
     return EXIT_CLEAN
@@ -209,22 +207,21 @@ def cmd_baseline(args: argparse.Namespace) -> int:
 
 def cmd_diff(args: argparse.Namespace) -> int:
     diff = _module("ledlint.review.diff").diff_files(args.old, args.new, config_path=args.config)
-    write_whole(_module(FORMATS[args.format]).render_diff(diff), args.output)
+    write_whole(_module(FORMATS[args.format]).render_diff(diff), args.output, [args.old, args.new, args.config or ""])
     return EXIT_CLEAN
 
 
 def cmd_rules(args: argparse.Namespace) -> int:
     rules = load_rules()
     if args.format == "json":
-        import json
-
         from ledlint.checks.registry import rule_doc
+        from ledlint.sanitise import json_text
 
-        sys.stdout.write(json.dumps([rule_doc(r) for r in rules], indent=2, ensure_ascii=False) + "\n")
+        sys.stdout.write(json_text([rule_doc(r) for r in rules]))
     else:
         width = max(len(r.id) for r in rules)
         for r in rules:
-            sys.stdout.write(f"{r.id:{width}}  {r.severity.value:7}  {r.summary}\n")
+            sys.stdout.write(f"{r.id:{width}}  {r.severity.value:7}  {shown(r.summary)}\n")
     return EXIT_CLEAN
 
 
@@ -264,7 +261,8 @@ def main(argv: Sequence[str] | None = None) -> int:
         return EXIT_INTERRUPTED
     except Exception as exc:  # a bug in ledlint, not in the input: never exit 1, which means findings
         where = traceback.extract_tb(exc.__traceback__)[-1]
-        print(f"ledlint: internal error: {type(exc).__name__}: {exc} (at {Path(where.filename).name}:{where.lineno}); "
+        print(f"ledlint: internal error: {type(exc).__name__}: {shown(str(exc))} "
+              f"(at {Path(where.filename).name}:{where.lineno}); "
               "this is a bug in ledlint, please report it with the netlist", file=sys.stderr)
         if os.environ.get("LEDLINT_DEBUG"):
             traceback.print_exc()

@@ -83,29 +83,6 @@ def test_an_interrupt_is_one_line_and_exit_130(monkeypatch, capsys) -> None:
     assert capsys.readouterr().err == "ledlint: interrupted; nothing written\n"
 
 
-def test_output_follows_a_symlink_and_gets_the_usual_permissions(tmp_path) -> None:
-    """A report written with -o replaces the link's target, not the link (common practice for
-    tools that write atomically), and a new file has the umask's permissions, not 0600."""
-    import os
-    from pathlib import Path
-
-    target, link = tmp_path / "report.json", tmp_path / "latest.json"
-    target.write_text("old", encoding="utf-8")
-    target.chmod(0o640)
-    link.symlink_to(target.name)
-    r = run("check", str(SAMPLES / "rgb-status.net"), "--format", "json", "-o", str(link))
-    assert r.returncode == 1, r.stderr
-    assert link.is_symlink() and json.loads(target.read_text(encoding="utf-8"))["schema"] == 1
-    assert target.stat().st_mode & 0o777 == 0o640  # a replaced file keeps its own
-    fresh = tmp_path / "fresh.json"
-    mask = os.umask(0o022)
-    try:
-        assert run("check", str(SAMPLES / "rgb-status.net"), "-o", str(fresh)).returncode == 1
-    finally:
-        os.umask(mask)
-    assert Path(fresh).stat().st_mode & 0o777 == 0o644
-
-
 @pytest.mark.skipif(not os.path.exists("/dev/full"), reason="needs /dev/full")
 def test_a_full_disk_on_standard_output_is_a_clear_error() -> None:
     with open("/dev/full", "w") as full:

@@ -29,6 +29,7 @@ from dataclasses import dataclass, replace
 from pathlib import Path
 from typing import Any
 
+from ledlint.sanitise import json_text
 from ledlint import __version__
 from ledlint.errors import LedlintError, read_utf8
 from ledlint.checks.findings import Finding, Severity
@@ -107,7 +108,7 @@ def document(items: tuple[Entry, ...]) -> dict[str, Any]:
 
 def render(result: RunResult, baseline_path: str | Path) -> str:
     """The baseline file's text for this run."""
-    return json.dumps(document(entries(result, baseline_path)), indent=2, ensure_ascii=False) + "\n"
+    return json_text(document(entries(result, baseline_path)))
 
 
 def _strings(raw: Any, where: str, path: str) -> tuple[str, ...]:
@@ -141,10 +142,12 @@ def parse(text: str, path: str) -> Baseline:
         data = json.loads(text)
     except json.JSONDecodeError as exc:
         raise LedlintError(f"not a baseline file: {exc.msg}", path, exc.lineno, exc.colno) from None
+    except RecursionError:  # the decoder recurses once per level of nesting
+        raise LedlintError("not a baseline file: nested too deeply", path) from None
     if not isinstance(data, dict) or FORMAT_KEY not in data:
         raise LedlintError(f"not a baseline file: no '{FORMAT_KEY}' key (write one with `ledlint baseline`)", path)
     version = data[FORMAT_KEY]
-    if version != VERSION:
+    if type(version) is not int or version != VERSION:  # true == 1 in Python, not in the format
         raise LedlintError(f"baseline version {version!r}: this ledlint reads version {VERSION}", path)
     raw = data.get("entries")
     if not isinstance(raw, list):

@@ -139,8 +139,9 @@ def check_design(netlist: Netlist, config: Config, rules: tuple[Rule, ...], rule
     active, waived, used = apply_waivers(findings, waivers)
     unused_own = [w for i, w in enumerate(waivers) if i >= len(config.waivers) and i not in used]
     used_config = {i for i in used if i < len(config.waivers)}
-    return (FileResult(path, netlist, board, tuple(active), tuple(waived), config.path, summarise(path, board)),
-            unused_own, used_config)
+    named = (r for f in (*active, *waived) for r in f.refs)
+    return (FileResult(path, netlist, board, tuple(active), tuple(waived), config.path,
+                       summarise(path, board, named)), unused_own, used_config)
 
 
 def check(paths: Sequence[str | Path], *, config_path: str | None = None,
