@@ -48,3 +48,32 @@ def test_mutated_boards_check_without_a_crash(which: int, rng: random.Random) ->
             return
         for fmt in (text, json_doc, sarif):
             fmt.render(result)
+
+
+# A reference is opaque text: any of these, given to a component and to every node naming it.
+_REFS = ["D2:x", "D1:", ":D1", "D1::R", "D 1", "D1\\\\", 'D1\\"', "D1(2)", "D1;", "#D1", "D1\u202e", "D1\x1b[2J",
+         "D\u00e91", "D1/2", "D1.A", "LED", "D", "1", "D1-A", "Net-(D1-A)", "R1", "~"]
+_REF = re.compile(r'\(ref "((?:[^"\\]|\\.)*)"\)')
+
+
+def _rename(text: str, rng: random.Random) -> str:
+    refs = sorted({m.group(1) for m in _REF.finditer(text)})
+    for old in rng.sample(refs, min(len(refs), rng.randint(1, 3))):
+        text = text.replace(f'(ref "{old}")', f'(ref "{rng.choice(_REFS)}")')
+    return text
+
+
+@settings(max_examples=80, deadline=None)
+@given(st.integers(0, len(_SEEDS) - 1), st.randoms(use_true_random=False))
+def test_references_renamed_with_their_nodes_check_without_a_crash(which: int, rng: random.Random) -> None:
+    """A component's ref and every node naming it change together, so the board stays wired and
+    the new name reaches the recogniser (a ref holding ':' once crashed it)."""
+    with tempfile.TemporaryDirectory() as folder:
+        path = Path(folder) / "renamed.net"
+        path.write_text(_rename(_SEEDS[which], rng), encoding="utf-8")
+        try:
+            result = check([path])
+        except LedlintError:
+            return
+        for fmt in (text, json_doc, sarif):
+            fmt.render(result)
