@@ -1,7 +1,6 @@
-"""What the schematic and XML readers share: reading a file, KiCad's own properties, DNP conventions.
+"""What every KiCad reader shares: reading and decoding a file, KiCad's own properties, DNP conventions.
 
-The conventions are the s-expression netlist reader's (kicad_net.py, which keeps its own copy):
-kicad-netlist-format.md §1.4 and §5.
+kicad-netlist-format.md §1.4 (properties), §5 (do not populate) and §6.8 (encoding).
 """
 
 from __future__ import annotations
@@ -11,6 +10,7 @@ from pathlib import Path
 from typing import Mapping
 
 from ledlint.errors import InputError, byte_position, failure_reason
+from ledlint.netlist.model import Note
 
 # The largest design file read: eight times a 20,000-part board's 15 MB netlist, and a stop for
 # endless inputs such as a device or a pipe. The README states it, and what it costs (memory
@@ -71,3 +71,26 @@ def read_bytes(path: str | Path, what: str) -> bytes:
     if len(data) > MAX_BYTES:
         raise InputError(f"larger than {MAX_BYTES >> 20} MiB: too large for a {what}", name)
     return data
+
+
+def decode(data: bytes, path: str = "", what: str = "KiCad netlist") -> tuple[str, list[Note]]:
+    """Bytes to text. KiCad writes UTF-8 (kicad-netlist-format.md §6.8).
+
+    A file that is not text (a NUL byte, or invalid UTF-8 before the first '(') is an error.
+    Invalid bytes later in an otherwise good file are replaced by U+FFFD and noted, so one
+    bad byte in a description does not lose the file.
+    """
+    nul = data.find(b"\0")
+    if nul >= 0:
+        line, col = byte_position(data, nul)
+        raise InputError(f"binary file (NUL byte), not a {what}", path, line, col)
+    if data.startswith(b"\xef\xbb\xbf"):
+        data = data[3:]
+    try:
+        return data.decode("utf-8"), []
+    except UnicodeDecodeError as exc:
+        line, col = byte_position(data, exc.start)
+        if not data.lstrip().startswith(b"("):
+            raise InputError(f"not a text file (invalid UTF-8), not a {what}", path, line, col) from None
+        note = Note(line, col, f"invalid UTF-8 byte 0x{data[exc.start]:02X}; undecodable bytes read as U+FFFD")
+        return data.decode("utf-8", errors="replace"), [note]

@@ -18,7 +18,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 
 from ledlint.errors import InputError, byte_position
-from ledlint.netlist.kicad_common import natural, read_bytes
+from ledlint.netlist.kicad_common import decode, natural, read_bytes
 from ledlint.netlist.model import Note
 from ledlint.netlist.sexpr import Locator, parse
 from ledlint.netlist.kicad_sch.parse import (
@@ -99,23 +99,6 @@ def _matching(entries: tuple[InstanceRef, ...], path: str, project: str) -> Inst
     return next((e for e in hits if e.project == project), hits[0] if hits else None)
 
 
-def _decode(data: bytes, name: str, notes: list[Note]) -> str:
-    nul = data.find(b"\0")
-    if nul >= 0:
-        line, col = byte_position(data, nul)
-        raise InputError("binary file (NUL byte), not a KiCad schematic", name, line, col)
-    if data.startswith(b"\xef\xbb\xbf"):
-        data = data[3:]
-    try:
-        return data.decode("utf-8")
-    except UnicodeDecodeError as exc:
-        line, col = byte_position(data, exc.start)
-        if not data.lstrip().startswith(b"("):
-            raise InputError("not a text file (invalid UTF-8), not a KiCad schematic", name, line, col) from None
-        notes.append(Note(line, col, f"invalid UTF-8 byte 0x{data[exc.start]:02X}; undecodable bytes read as U+FFFD"))
-        return data.decode("utf-8", errors="replace")
-
-
 def _describe_start(text: str) -> str | None:
     """A clear word for a file that is not an s-expression at all."""
     head = text.lstrip()
@@ -136,7 +119,8 @@ def load_file(path: Path) -> tuple[SheetFile, list[Note]]:
     """One schematic file, parsed; every problem is an InputError naming the file."""
     name = str(path)
     notes: list[Note] = []
-    text = _decode(read_bytes(path, "KiCad schematic"), name, notes)
+    text, undecodable = decode(read_bytes(path, "KiCad schematic"), name, "KiCad schematic")
+    notes += undecodable
     problem = _describe_start(text)
     if problem is not None:
         offset = len(text) - len(text.lstrip())
