@@ -359,6 +359,13 @@ def test_thermal_resistance(text: str) -> None:
     assert parse_thermal_resistance(text) == Quantity(400.0, text.strip())
 
 
+def test_a_decimal_comma_in_thermal_and_temperature_fields() -> None:
+    # The comma is a decimal sign as much as the point (ISO 80000-1 §7.3.2), as in value text.
+    assert parse_thermal_resistance("312,5 K/W") == Quantity(312.5, "312,5 K/W")
+    assert parse_temperature("-40,5 \u00b0C") == Quantity(-40.5, "-40,5 \u00b0C")
+    assert parse_thermal_resistance("0,0") == Quantity(0.0, "0,0")
+
+
 @pytest.mark.parametrize("text", ["", "K/W", "400 W/K", "-400K/W", "400mK/W"])
 def test_thermal_resistance_unreadable(text: str) -> None:
     assert parse_thermal_resistance(text) is None

@@ -369,7 +369,7 @@ def parse_thermal_resistance(text: str) -> Quantity | None:
     match = _THERMAL.fullmatch(text)
     if match is None:
         return None
-    number = _finite(float(match.group("num")))
+    number = _finite(float(match.group("num").replace(",", ".")))  # a decimal comma, as _NUM allows
     return None if number is None else Quantity(number, text.strip())
 
 
@@ -379,7 +379,7 @@ def parse_temperature(text: str) -> Quantity | None:
     match = _TEMPERATURE.fullmatch(text)
     if match is None:
         return None
-    number = _finite(float(match.group("num")))
+    number = _finite(float(match.group("num").replace(",", ".")))  # a decimal comma, as _NUM allows
     return None if number is None else Quantity(_signed(match.group("sign"), number), text.strip())
 
 
